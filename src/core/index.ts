@@ -5,3 +5,4 @@ export { canonicalJson, sha256, hashValue } from './canonical.js';
 export { dot, norm, distance, clamp, median } from './vec.js';
 export type { Vec } from './vec.js';
 export { readJsonFile } from './json.js';
+export { parseWith, formatPath } from './schema.js';
