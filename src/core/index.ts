@@ -6,3 +6,4 @@ export { dot, norm, distance, clamp, median } from './vec.js';
 export type { Vec } from './vec.js';
 export { readJsonFile } from './json.js';
 export { parseWith, formatPath } from './schema.js';
+export { NOISE_LABEL, perturbation, candidate } from './noise.js';

@@ -1,0 +1,80 @@
+import type { BodyPlan } from '../body/index.js';
+import type { PolicyShape } from '../policy/index.js';
+import type { RolloutOptions, RolloutResult } from '../sim/index.js';
+import type { Course } from '../terrain/index.js';
+
+/**
+ * The controller weights of a task: given outright, or rebuilt in the worker as
+ * base + sign·σ·ε(seed), where `base` indexes the batch's shared vectors. The second form
+ * sends an ES mean once per batch instead of once per candidate.
+ */
+export type PolicyRef =
+  | { readonly kind: 'params'; readonly params: readonly number[] }
+  | { readonly kind: 'perturbed'; readonly base: number; readonly seed: number; readonly sign: 1 | -1; readonly sigma: number };
+
+/** One rollout. Indices point into the batch's shared tables. */
+export interface RolloutTask {
+  readonly kind: 'rollout';
+  readonly course: number;
+  readonly plan: number;
+  readonly shape: number;
+  readonly options: number;
+  readonly policy: PolicyRef;
+}
+
+/**
+ * A deliberately faulty task, for tests of the pool's fault handling: on attempts before
+ * `untilAttempt` it throws, exits its thread or loops forever; afterwards it returns a fixed result.
+ */
+export interface FaultTask {
+  readonly kind: 'fault';
+  readonly mode: 'throw' | 'exit' | 'hang';
+  readonly untilAttempt: number;
+}
+
+export type Task = RolloutTask | FaultTask;
+
+/** Inputs shared by many tasks of a batch, sent to each worker once per batch. */
+export interface BatchTables {
+  readonly courses: readonly Course[];
+  readonly plans: readonly BodyPlan[];
+  readonly shapes: readonly PolicyShape[];
+  readonly options: readonly RolloutOptions[];
+  /** Base weight vectors for perturbed policies (ES means). */
+  readonly bases: readonly (readonly number[])[];
+}
+
+/** A self-contained, serialisable unit of work: tables plus tasks that refer into them. */
+export interface Batch extends BatchTables {
+  readonly tasks: readonly Task[];
+}
+
+/** What a pool reports about itself as it works (a worker replaced, a task retried). */
+export interface PoolEvent {
+  readonly kind: 'worker-replaced';
+  readonly reason: string;
+  /** Task indices (in the batch) that were re-queued. */
+  readonly tasks: readonly number[];
+}
+
+/** Runs batches of rollouts. Results come back in task order, whoever computed them. */
+export interface Evaluator {
+  /** Number of worker threads (0 for the calling thread). */
+  readonly workers: number;
+  evaluate(batch: Batch): Promise<RolloutResult[]>;
+  /** Stops all threads; the evaluator cannot be used afterwards. */
+  close(): Promise<void>;
+}
+
+/** An empty batch to fill: tables are appended to with `addTo`. */
+export function emptyBatch(): { courses: Course[]; plans: BodyPlan[]; shapes: PolicyShape[]; options: RolloutOptions[]; bases: number[][]; tasks: Task[] } {
+  return { courses: [], plans: [], shapes: [], options: [], bases: [], tasks: [] };
+}
+
+/** Appends `item` to `table` unless the very same object is already there; returns its index. */
+export function addTo<T>(table: T[], item: T): number {
+  const i = table.indexOf(item);
+  if (i >= 0) return i;
+  table.push(item);
+  return table.length - 1;
+}
