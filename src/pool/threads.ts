@@ -40,6 +40,8 @@ interface Current {
  * `worker-threads-pool` (whose `acquire` builds a new Worker per call) and kept for the life of
  * the evaluator, so the JIT warm-up is paid once. A thread that throws, exits or overruns its
  * time limit is replaced and its tasks re-run one by one; a task that fails twice fails the batch.
+ * Threads that keep failing with no job finished in between are no longer replaced, and this and
+ * every later batch reject instead of waiting for threads that will never come.
  */
 export class ThreadEvaluator implements Evaluator {
   private readonly pool: Pool;
@@ -50,6 +52,8 @@ export class ThreadEvaluator implements Evaluator {
   private batchCounter = 0;
   private jobCounter = 0;
   private failuresSinceSuccess = 0;
+  /** Set once threads kept failing and were no longer replaced: later batches would wait forever. */
+  private broken: Error | null = null;
   private closed = false;
 
   constructor(readonly workers: number, private readonly options: ThreadOptions = {}) {
@@ -78,6 +82,7 @@ export class ThreadEvaluator implements Evaluator {
 
   evaluate(batch: Batch): Promise<RolloutResult[]> {
     if (this.closed) return Promise.reject(new Error('evaluator is closed'));
+    if (this.broken) return Promise.reject(this.broken);
     if (this.current) return Promise.reject(new Error('evaluate called while a batch is running'));
     const n = batch.tasks.length;
     if (n === 0) return Promise.resolve([]);
@@ -167,7 +172,8 @@ export class ThreadEvaluator implements Evaluator {
     const cur = this.current;
     if (cur && job && slot.tablesFor === cur.id) this.requeue(cur, job, reason);
     if (this.failuresSinceSuccess > 2 * this.workers + 2) {
-      this.fail(new Error(`worker threads keep failing (${this.failuresSinceSuccess} times in a row), last: ${reason}`));
+      this.broken = new Error(`worker threads keep failing (${this.failuresSinceSuccess} times in a row), last: ${reason}`);
+      this.fail(this.broken);
       return;
     }
     this.spawn();

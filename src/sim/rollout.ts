@@ -28,7 +28,7 @@ export interface RolloutOptions {
 }
 
 export function defaultRolloutOptions(): RolloutOptions {
-  return { physics: defaultPhysics(), maxSteps: 1500, stallSeconds: 3, stallDistance: 0.1, fallPenalty: 0.05, traceEvery: 0, control: 'policy' };
+  return { physics: defaultPhysics(), maxSteps: 3000, stallSeconds: 3, stallDistance: 0.1, fallPenalty: 0.05, traceEvery: 0, control: 'policy' };
 }
 
 /** Segment poses over an episode: frames[k] is [x0, y0, angle0, x1, y1, angle1, ...] in segment order. */
@@ -61,9 +61,9 @@ function recordFrame(walker: Walker): number[] {
   return frame;
 }
 
-/** Motor pattern of the scripted modes: each joint follows a 1 Hz sine with its own phase. */
+/** Motor pattern of the scripted modes: each joint follows a 1 Hz sine of amplitude 0.5 with its own phase. */
 function scripted(step: number, dt: number, out: Float64Array): void {
-  for (let j = 0; j < out.length; j++) out[j] = Math.sin(2 * Math.PI * step * dt + j * 1.3);
+  for (let j = 0; j < out.length; j++) out[j] = 0.5 * Math.sin(2 * Math.PI * step * dt + j * 1.3);
 }
 
 /**

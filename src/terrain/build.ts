@@ -10,7 +10,8 @@ const WALL = 3;
 const RUN_OUT = 10;
 /**
  * Shortest ground edge, m. Box2D-family engines expect chain vertices further apart than their
- * linear slop (0.005 m); a closer point replaces the previous one instead.
+ * linear slop (0.005 m); a closer point replaces the previous one instead (or is dropped
+ * when it sits at the same x).
  */
 export const MIN_EDGE = 0.01;
 
@@ -20,7 +21,10 @@ function makeBuilder(genome: TerrainGenome, family: TerrainFamily, ground: numbe
   const point = (x: number, y: number): void => {
     const n = ground.length;
     if (n >= 2 && Math.hypot(ground[n - 2] - x, ground[n - 1] - y) < MIN_EDGE) {
-      if (n >= 4) {
+      // A point straight above or below the last (a step under MIN_EDGE) is dropped, so the
+      // following stretch absorbs it: replacing would tilt the ground before the feature,
+      // as far back as the start zone.
+      if (n >= 4 && ground[n - 2] !== x) {
         ground[n - 2] = x;
         ground[n - 1] = y;
       }
@@ -32,11 +36,17 @@ function makeBuilder(genome: TerrainGenome, family: TerrainFamily, ground: numbe
     pitDepth: family.pitDepth,
     point,
     stretch(x1, y1) {
-      const x0 = ground[ground.length - 2];
-      const y0 = ground[ground.length - 1];
+      let x0 = ground[ground.length - 2];
+      let y0 = ground[ground.length - 1];
       if (amplitude > 0 && x1 > x0) {
+        // The start zone stays flat (the spawn stands at height 0): a point at its edge, bumps only past it.
+        if (x0 < family.startZone && x1 > family.startZone) {
+          y0 += ((y1 - y0) * (family.startZone - x0)) / (x1 - x0);
+          x0 = family.startZone;
+          point(x0, y0);
+        }
         // Bumps sit on a fixed grid (k · spacing) so a feature moving does not reshuffle them.
-        const first = Math.max(Math.floor(x0 / spacing) + 1, Math.ceil(family.startZone / spacing));
+        const first = Math.max(Math.floor(x0 / spacing), Math.floor(family.startZone / spacing)) + 1;
         for (let k = first; k * spacing < x1 - MIN_EDGE; k++) {
           const x = k * spacing;
           if (x < x0 + MIN_EDGE) continue;

@@ -56,7 +56,9 @@ function mutateOnce(genome: TerrainGenome, family: TerrainFamily, s: Stream): Te
   }
   if (features.length > 0 && s.next() < m.shiftProbability) features[s.int(features.length)].x += m.shift * s.normal();
   if (features.length > 0 && s.next() < m.removeProbability) features.splice(s.int(features.length), 1);
-  if (features.length < family.maxFeatures && s.next() < m.addProbability) features.push(newFeature(family, s));
+  // A family may allow no kinds at all (roughness only): then there is nothing to add.
+  const canAdd = features.length < family.maxFeatures && Object.keys(family.kinds).length > 0;
+  if (canAdd && s.next() < m.addProbability) features.push(newFeature(family, s));
   features = repair(features, family);
   return { roughness: { amplitude, seed }, features: features as Feature[] };
 }

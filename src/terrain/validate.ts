@@ -16,7 +16,8 @@ function featureProblems(f: unknown, i: number, family: TerrainFamily, out: stri
   const path = `features[${i}]`;
   if (!isObject(f)) return out.push(`${path}: expected an object, found ${JSON.stringify(f)}`) < 0;
   const kind = f.kind as keyof typeof KINDS;
-  const ranges = typeof kind === 'string' ? family.kinds[kind] : undefined;
+  // Own keys only: a kind such as "constructor" must be reported, not looked up on Object.prototype.
+  const ranges = typeof kind === 'string' && Object.hasOwn(family.kinds, kind) ? family.kinds[kind] : undefined;
   if (!ranges) {
     out.push(`${path}.kind: expected one of ${Object.keys(family.kinds).join(', ')}, found ${JSON.stringify(f.kind)}`);
     return false;

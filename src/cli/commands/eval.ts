@@ -1,0 +1,68 @@
+import type { Command } from 'commander';
+import { loadBodyPlan, observationSize, actionSize } from '../../body/index.js';
+import { stream, UserError } from '../../core/index.js';
+import { emptyBatch, makeEvaluator } from '../../pool/index.js';
+import { initParams, type PolicyShape } from '../../policy/index.js';
+import { defaultRolloutOptions } from '../../sim/index.js';
+import { loadWalker, writeFileAtomic } from '../../store/index.js';
+import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
+import { hiddenSizes, intIn, oneOf } from '../options.js';
+
+interface EvalOptions {
+  terrain: string; family?: string; body: string; walker?: string; seed: number; hidden: number[];
+  activation: 'tanh' | 'relu' | 'linear'; steps: number; json?: boolean; trace?: string; workers?: number;
+}
+
+async function evalAction(o: EvalOptions): Promise<void> {
+  const src = loadTerrainSource(o.terrain, o.family);
+  const course = buildCourse(src.genome, src.family);
+  const walker = o.walker ? loadWalker(o.walker) : undefined;
+  const plan = loadBodyPlan(o.body);
+  if (walker && walker.bodyName !== plan.name) {
+    throw new UserError(`Walker ${o.walker} was made for body plan "${walker.bodyName}", but --body ${o.body} is "${plan.name}"`);
+  }
+  const shape: PolicyShape = walker?.shape ?? { inputs: observationSize(plan), hidden: o.hidden, outputs: actionSize(plan), activation: o.activation };
+  if (shape.inputs !== observationSize(plan) || shape.outputs !== actionSize(plan)) {
+    throw new UserError(`Walker ${o.walker}: network takes ${shape.inputs} inputs and gives ${shape.outputs} outputs; body plan "${plan.name}" needs ${observationSize(plan)} and ${actionSize(plan)}`);
+  }
+  const params = walker ? walker.params : Array.from(initParams(shape, stream(o.seed, 'walker/init')));
+  const batch = emptyBatch();
+  batch.courses.push(course);
+  batch.plans.push(plan);
+  batch.shapes.push(shape);
+  batch.options.push({ ...defaultRolloutOptions(), maxSteps: o.steps, traceEvery: o.trace ? 5 : 0 });
+  batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params } });
+  const evaluator = makeEvaluator(o.workers ?? 0);
+  try {
+    const [r] = await evaluator.evaluate(batch);
+    if (o.trace && r.trace) writeFileAtomic(o.trace, `${JSON.stringify({ course, plan: plan.name, trace: r.trace })}\n`);
+    const summary = { progress: r.progress, fitness: r.fitness, steps: r.steps, fell: r.fell, end: r.end, seconds: r.steps * batch.options[0].physics.timeStep };
+    if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
+    else {
+      process.stdout.write(
+        `progress ${r.progress.toFixed(4)}  fitness ${r.fitness.toFixed(4)}  steps ${r.steps} (${summary.seconds.toFixed(1)} s simulated)  ` +
+          `${r.fell ? 'fell' : 'did not fall'}  ended: ${r.end}\n`,
+      );
+    }
+  } finally {
+    await evaluator.close();
+  }
+}
+
+export function registerEval(program: Command): void {
+  program
+    .command('eval')
+    .description('run one rollout of a walker on a course and print progress, fitness, steps and whether it fell')
+    .option('--terrain <file>', 'terrain family (its start genome) or genome file', 'envs/terrain/starter.json')
+    .option('--family <file>', 'terrain family of a bare genome file')
+    .option('--body <file>', 'body plan', 'envs/bodies/trestle.json')
+    .option('--walker <file>', 'walker file (weights); without it a walker is initialised from --seed')
+    .option('--seed <n>', 'seed of a random walker', intIn(0, 2 ** 31 - 1), 1)
+    .option('--hidden <sizes>', 'hidden layer sizes of a random walker, e.g. 32,32 (none = linear)', hiddenSizes, [])
+    .option('--activation <name>', 'hidden activation of a random walker', oneOf(['tanh', 'relu', 'linear'] as const), 'tanh')
+    .option('--steps <n>', 'step budget', intIn(1, 10_000_000), 3000)
+    .option('--workers <n>', 'evaluate on a worker thread (1) or in this thread (0)', intIn(0, 1), 0)
+    .option('--trace <file>', 'also write the course and the walker poses (every 5 steps) as JSON')
+    .option('--json', 'print one JSON object')
+    .action(evalAction);
+}

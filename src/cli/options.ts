@@ -1,0 +1,35 @@
+import { InvalidArgumentError } from 'commander';
+
+/** Commander parser for an integer option within [min, max]. */
+export function intIn(min: number, max: number): (v: string) => number {
+  return (v: string) => {
+    const n = Number(v);
+    if (!/^[+-]?\d+$/.test(v.trim()) || !Number.isSafeInteger(n)) throw new InvalidArgumentError(`expected an integer, found "${v}"`);
+    if (n < min || n > max) throw new InvalidArgumentError(`expected an integer in [${min}, ${max}], found ${n}`);
+    return n;
+  };
+}
+
+/** Commander parser for a number option within [min, max]. */
+export function numberIn(min: number, max: number): (v: string) => number {
+  return (v: string) => {
+    const n = Number(v);
+    if (v.trim() === '' || !Number.isFinite(n)) throw new InvalidArgumentError(`expected a number, found "${v}"`);
+    if (n < min || n > max) throw new InvalidArgumentError(`expected a number in [${min}, ${max}], found ${n}`);
+    return n;
+  };
+}
+
+/** Commander parser for a comma-separated list of layer sizes, e.g. "32,32"; "" or "none" is a linear policy. */
+export function hiddenSizes(v: string): number[] {
+  if (v.trim() === '' || v.trim() === 'none') return [];
+  return v.split(',').map((p) => intIn(1, 1024)(p.trim()));
+}
+
+/** Commander parser for one of a fixed set of words. */
+export function oneOf<T extends string>(words: readonly T[]): (v: string) => T {
+  return (v: string) => {
+    if (!words.includes(v as T)) throw new InvalidArgumentError(`expected one of ${words.join(', ')}, found "${v}"`);
+    return v as T;
+  };
+}
