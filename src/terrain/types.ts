@@ -50,7 +50,7 @@ export interface MutationSettings {
   readonly shift: number;
   /** Probability of re-drawing the roughness seed. */
   readonly reseedProbability: number;
-  /** A new feature's fields start in [min, min + newFeatureSpan·(max − min)]: complexity grows gently. */
+  /** A new feature's fields start within newFeatureSpan·(max − min) of their easiest allowed value (the one closest to 0): complexity grows gently. */
   readonly newFeatureSpan: number;
 }
 
