@@ -3,6 +3,8 @@ import { Command, CommanderError } from 'commander';
 import { registerBench } from './commands/bench.js';
 import { registerEval } from './commands/eval.js';
 import { registerTrain } from './commands/train.js';
+import { registerRun } from './commands/run.js';
+import { registerStatus } from './commands/status.js';
 import { EXIT, reportError } from './fail.js';
 
 const program = new Command();
@@ -13,6 +15,8 @@ program
   .showHelpAfterError('(run with --help for usage)')
   .exitOverride()
   .configureOutput({ writeErr: (s) => process.stderr.write(s.startsWith('error:') ? `cairn: ${s}` : s) });
+registerRun(program);
+registerStatus(program);
 registerEval(program);
 registerTrain(program);
 registerBench(program);

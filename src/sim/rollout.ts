@@ -1,3 +1,4 @@
+import { Vec2 } from 'planck-js';
 import { applyActions, buildWalker, CourseRays, observationSize, rayDirections, sense, trackContacts, type BodyPlan, type Walker } from '../body/index.js';
 import { makeForward, type PolicyShape } from '../policy/index.js';
 import type { Course } from '../terrain/index.js';
@@ -25,6 +26,8 @@ export interface RolloutOptions {
   /** Record segment poses every `traceEvery` steps (0 = no trace). */
   readonly traceEvery: number;
   readonly control: Control;
+  /** Horizontal impulse on the torso before the first step, N·s (a perturbation for robustness checks; 0 = none). */
+  readonly push?: number;
 }
 
 export function defaultRolloutOptions(): RolloutOptions {
@@ -85,6 +88,7 @@ export function rollout(course: Course, plan: BodyPlan, shape: PolicyShape, para
   const span = course.finishX - course.startX;
   const stallSteps = Math.max(1, Math.round(options.stallSeconds / physics.timeStep));
   const frames: number[][] = [];
+  if (options.push) torso.applyLinearImpulse(Vec2(options.push, 0), torso.getWorldCenter(), true);
   let maxX = torso.getPosition().x;
   let stallRef = maxX;
   let lastAdvance = 0;

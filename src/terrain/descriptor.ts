@@ -45,3 +45,14 @@ export function normalisedDescriptor(genome: TerrainGenome, family: TerrainFamil
   const b = descriptorBounds(family);
   return descriptor(genome).map((v, i) => (b[i] > 0 ? v / b[i] : 0));
 }
+
+/**
+ * The difficulty measure used to order curricula and compare courses: the mean of the
+ * normalised descriptor components, in [0, 1]. 0 is flat ground; 1 would be every obstacle
+ * at its family's extreme and the most features. A plain, documented measure rather than a
+ * learned one, so other programs can recompute it from the genome.
+ */
+export function difficulty(genome: TerrainGenome, family: TerrainFamily): number {
+  const d = normalisedDescriptor(genome, family);
+  return d.reduce((a, b) => a + b, 0) / d.length;
+}

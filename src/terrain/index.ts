@@ -5,6 +5,6 @@ export { validateGenome } from './validate.js';
 export { parseGenome, loadGenome } from './genome.js';
 export { buildCourse, groundHeightAt } from './build.js';
 export { mutate } from './mutate.js';
-export { descriptor, descriptorBounds, normalisedDescriptor, DESCRIPTOR_NAMES, DESCRIPTOR_LENGTH } from './descriptor.js';
+export { descriptor, descriptorBounds, normalisedDescriptor, difficulty, DESCRIPTOR_NAMES, DESCRIPTOR_LENGTH } from './descriptor.js';
 export { loadTerrainSource } from './source.js';
 export type { TerrainSource } from './source.js';

@@ -1,0 +1,140 @@
+import { dirname, resolve } from 'node:path';
+import { z } from 'zod';
+import { parseWith, readJsonFile, UserError } from '../core/index.js';
+
+const int = (min: number, max: number) => z.number().int().min(min).max(max);
+const num = (min: number, max: number) => z.number().min(min).max(max);
+const fraction = num(0, 1);
+
+/**
+ * A run configuration. Every field has a default (see README for units and ranges); a recipe
+ * file may give any subset. Unknown keys are refused.
+ */
+export const recipeSchema = z
+  .object({
+    /** Run name: the default run directory is runs/<name>/. */
+    name: z.string().regex(/^[A-Za-z0-9._-]+$/, 'expected letters, digits, ".", "_" or "-"').default('run'),
+    /** Run seed: every random draw derives from it. */
+    seed: int(0, 2 ** 31 - 1).default(1),
+    /** Terrain family file, relative to the recipe file. */
+    terrain: z.string().min(1).default('../envs/terrain/mixed.json'),
+    /** Body plan file, relative to the recipe file. */
+    body: z.string().min(1).default('../envs/bodies/trestle.json'),
+    policy: z
+      .object({
+        hidden: z.array(int(1, 1024)).max(8).default([]),
+        activation: z.enum(['tanh', 'relu', 'linear']).default('tanh'),
+      })
+      .strict()
+      .prefault({}),
+    es: z
+      .object({
+        pairs: int(1, 10_000).default(16),
+        sigma: num(1e-6, 10).default(0.05),
+        learningRate: num(1e-6, 10).default(0.02),
+        beta1: z.number().min(0).lt(1).default(0.9),
+        beta2: z.number().min(0).lt(1).default(0.999),
+        epsilon: num(1e-12, 1).default(1e-8),
+        weightDecay: num(0, 1).default(0.005),
+      })
+      .strict()
+      .prefault({}),
+    episode: z
+      .object({
+        maxSteps: int(1, 1_000_000).default(3000),
+        stallSeconds: num(0.1, 3600).default(3),
+        stallDistance: num(0, 100).default(0.1),
+        fallPenalty: num(0, 10).default(0.05),
+        timeStep: num(1e-4, 0.1).default(0.02),
+        velocityIterations: int(1, 500).default(20),
+        positionIterations: int(1, 500).default(10),
+        gravity: num(0, 100).default(9.81),
+      })
+      .strict()
+      .prefault({}),
+    population: z
+      .object({
+        /** Most active pairs; the oldest retire to the archive beyond it. */
+        maxActive: int(1, 1000).default(8),
+      })
+      .strict()
+      .prefault({}),
+    admission: z
+      .object({
+        interval: int(1, 1_000_000).default(5),
+        /** A pair's walker must have at least this progress for its course to have children. */
+        reproduceAbove: fraction.default(0.6),
+        candidates: int(1, 10_000).default(16),
+        /** Minimal criterion band on the best current walker's progress. */
+        low: fraction.default(0.15),
+        high: fraction.default(0.9),
+        maxAdmitted: int(1, 1000).default(2),
+        /** Candidates whose novelty is below this are refused as not novel. */
+        minNovelty: num(0, 1e6).default(0),
+      })
+      .strict()
+      .prefault({}),
+    novelty: z
+      .object({
+        measure: z.enum(['descriptor', 'profile']).default('descriptor'),
+        k: int(1, 1000).default(5),
+      })
+      .strict()
+      .prefault({}),
+    transfer: z
+      .object({
+        interval: int(1, 1_000_000).default(10),
+        /** Fine-tune (one ES step) only the best few zero-shot walkers of each course. */
+        fineTuneTop: int(0, 1000).default(2),
+        /** A transferred walker must beat the incumbent's progress by more than this. */
+        margin: num(0, 1).default(0.01),
+      })
+      .strict()
+      .prefault({}),
+    solve: z
+      .object({
+        threshold: fraction.default(0.95),
+        /** Confirmation rollouts under perturbations and a stricter solver; all must reach the threshold. */
+        checks: int(0, 100).default(3),
+        /** Horizontal push on the torso at the start of a confirmation rollout, N·s (random sign and size up to this). */
+        push: num(0, 100).default(0.3),
+      })
+      .strict()
+      .prefault({}),
+    checkpoint: z
+      .object({
+        interval: int(1, 1_000_000).default(5),
+        keep: int(1, 1000).default(3),
+      })
+      .strict()
+      .prefault({}),
+    budget: z
+      .object({
+        iterations: int(1, 100_000_000).default(200),
+        /** Wall-clock limit of one invocation, minutes (0 = none). */
+        minutes: num(0, 1e7).default(0),
+      })
+      .strict()
+      .prefault({}),
+  })
+  .strict();
+
+export type Recipe = z.output<typeof recipeSchema>;
+
+/** Every problem of a recipe with its field path; defaults filled in when valid. */
+export function parseRecipe(json: unknown, where: string): Recipe {
+  const recipe = parseWith(recipeSchema, json, where, 'Recipe');
+  const problems: string[] = [];
+  if (recipe.admission.low >= recipe.admission.high) {
+    problems.push(`${where}: admission.low: expected below admission.high (${recipe.admission.high}), found ${recipe.admission.low}`);
+  }
+  if (problems.length > 0) throw new UserError(`Recipe ${where} is not valid:`, problems);
+  return recipe;
+}
+
+/** Loads a recipe file; `terrain` and `body` come back as absolute paths. */
+export function loadRecipe(path: string): Recipe {
+  const recipe = parseRecipe(readJsonFile(path, 'Recipe'), path);
+  const base = dirname(resolve(path));
+  return { ...recipe, terrain: resolve(base, recipe.terrain), body: resolve(base, recipe.body) };
+}

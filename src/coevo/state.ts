@@ -1,0 +1,85 @@
+import type { EsState } from '../evolve/index.js';
+import type { TerrainGenome } from '../terrain/index.js';
+
+/** Outcome of one candidate terrain at admission. */
+export type CandidateOutcome = 'admitted' | 'too-easy' | 'too-hard' | 'not-novel' | 'duplicate';
+
+/** The best any walker did on a course so far, with the weights that did it. */
+export interface BestOnCourse {
+  readonly progress: number;
+  readonly walkerId: number;
+  readonly iteration: number;
+  readonly params: readonly number[];
+}
+
+/** Everything known about one admitted course. Courses are never deleted: retired ones stay as archived. */
+export interface CourseRecord {
+  readonly id: number;
+  /** Course this one was mutated from (null for the starting course). */
+  readonly parent: number | null;
+  readonly admittedAt: number;
+  readonly genome: TerrainGenome;
+  readonly descriptor: readonly number[];
+  /** Minimal-criterion figures at admission: best current walker's progress and who did it. */
+  readonly admission: { readonly bestProgress: number; readonly walkerId: number | null; readonly novelty: number };
+  readonly best: BestOnCourse;
+  /** First iteration whose walker solved it (confirmed), or null. */
+  readonly solvedAt: number | null;
+  /** The walker whose confirmation made the course solved, with its weights. */
+  readonly solvedBy: BestOnCourse | null;
+  readonly archivedAt: number | null;
+  /** Walkers that held the course, in order, with the iteration each took over. */
+  readonly holders: readonly { readonly walkerId: number; readonly since: number; readonly how: 'seed' | 'zero-shot' | 'fine-tuned' }[];
+}
+
+/** An active course with its incumbent walker and that walker's optimiser state. */
+export interface PairState {
+  readonly courseId: number;
+  readonly walkerId: number;
+  readonly es: EsState;
+  /** Progress of the walker's mean at its last evaluation. */
+  readonly progress: number;
+}
+
+/** The whole state of a run: plain data, replaced not mutated; its hash is the fingerprint. */
+export interface RunState {
+  readonly format: 1;
+  /** Iterations completed. */
+  readonly iteration: number;
+  readonly nextCourseId: number;
+  readonly nextWalkerId: number;
+  /** Every admitted course, in admission order. */
+  readonly courses: readonly CourseRecord[];
+  /** Active pairs, in creation order. */
+  readonly pairs: readonly PairState[];
+  readonly counters: {
+    readonly candidates: number;
+    readonly takeovers: number;
+    readonly rollouts: number;
+    readonly steps: number;
+  };
+}
+
+/** One record in events.jsonl. */
+export type RunEvent =
+  | { readonly type: 'candidate'; readonly iteration: number; readonly parent: number; readonly outcome: CandidateOutcome; readonly courseId: number | null; readonly bestProgress: number; readonly walkerId: number | null; readonly novelty: number | null; readonly descriptor: readonly number[] }
+  | { readonly type: 'retired'; readonly iteration: number; readonly courseId: number; readonly walkerId: number; readonly progress: number }
+  | { readonly type: 'takeover'; readonly iteration: number; readonly courseId: number; readonly fromCourse: number; readonly walkerId: number; readonly newWalkerId: number; readonly how: 'zero-shot' | 'fine-tuned'; readonly progress: number; readonly incumbentProgress: number }
+  | { readonly type: 'solved'; readonly iteration: number; readonly courseId: number; readonly walkerId: number; readonly progress: number; readonly checks: readonly number[] }
+  | { readonly type: 'unconfirmed'; readonly iteration: number; readonly courseId: number; readonly walkerId: number; readonly progress: number; readonly checks: readonly number[] };
+
+/** One line of metrics.jsonl: nothing about wall-clock time, so logs of a resumed run match an uninterrupted one. */
+export interface IterationMetrics {
+  readonly iteration: number;
+  readonly activePairs: number;
+  readonly admitted: number;
+  readonly archived: number;
+  readonly solved: number;
+  readonly takeovers: number;
+  readonly bestProgress: number;
+  readonly medianProgress: number;
+  /** Hardest solved course by the difficulty measure (0 when none). */
+  readonly hardestSolved: number;
+  readonly rollouts: number;
+  readonly steps: number;
+}

@@ -1,0 +1,89 @@
+import type { Evaluator } from '../pool/index.js';
+import { BatchBuilder, freshEs, type RunContext } from './context.js';
+import type { Draft } from './draft.js';
+import { finishEsStep, planEsStep, type PlannedEsStep } from './es-batch.js';
+import type { PairState } from './state.js';
+
+interface Offer {
+  readonly from: PairState;
+  readonly how: 'zero-shot' | 'fine-tuned';
+  readonly params: readonly number[];
+  progress: number;
+}
+
+interface Target {
+  readonly pair: PairState;
+  incumbent: number;
+  readonly offers: Offer[];
+}
+
+/** Batch 1: each pair's incumbent and every other active walker, as they are, on the pair's course. */
+async function zeroShot(ctx: RunContext, draft: Draft, evaluator: Evaluator): Promise<Target[]> {
+  const b = new BatchBuilder(ctx, draft);
+  const plan = draft.pairs.map((p) => {
+    const c = b.course(p.courseId);
+    return { p, inc: b.rollout(c, p.es.mean), others: draft.pairs.filter((q) => q !== p).map((q) => ({ q, t: b.rollout(c, q.es.mean) })) };
+  });
+  const r = await evaluator.evaluate(b.batch());
+  draft.count(r);
+  return plan.map(({ p, inc, others }) => ({
+    pair: p,
+    incumbent: r[inc].progress,
+    offers: others.map(({ q, t }) => ({ from: q, how: 'zero-shot' as const, params: q.es.mean, progress: r[t].progress })),
+  }));
+}
+
+/** Batches 2 and 3: the best few zero-shot walkers of each course take one ES step there, then are evaluated. */
+async function fineTune(ctx: RunContext, draft: Draft, evaluator: Evaluator, targets: Target[]): Promise<void> {
+  const top = ctx.recipe.transfer.fineTuneTop;
+  if (top === 0) return;
+  const b = new BatchBuilder(ctx, draft);
+  const steps: { target: Target; from: PairState; planned: PlannedEsStep }[] = [];
+  for (const target of targets) {
+    const ranked = [...target.offers].sort((x, y) => y.progress - x.progress).slice(0, top);
+    for (const o of ranked) {
+      const es = freshEs(ctx, o.params, `iteration/${draft.iteration}/transfer/${target.pair.courseId}/${o.from.walkerId}`);
+      const slots = { course: b.course(target.pair.courseId), plan: 0, shape: 0, options: 0, base: b.base(o.params) };
+      steps.push({ target, from: o.from, planned: planEsStep(es, ctx.es, slots, b.tasks) });
+    }
+  }
+  if (steps.length === 0) return;
+  const r = await evaluator.evaluate(b.batch());
+  draft.count(r);
+  const b2 = new BatchBuilder(ctx, draft);
+  const tuned = steps.map((s) => {
+    const params = finishEsStep(s.planned, ctx.es, r).state.mean;
+    return { ...s, params, task: b2.rollout(b2.course(s.target.pair.courseId), params) };
+  });
+  const r2 = await evaluator.evaluate(b2.batch());
+  draft.count(r2);
+  for (const t of tuned) t.target.offers.push({ from: t.from, how: 'fine-tuned', params: t.params, progress: r2[t.task].progress });
+}
+
+/**
+ * Phase 3: for each pair, every other active walker is tried on its course zero-shot and (the
+ * best few) after one ES step there; the best offer takes the course over when it beats the
+ * incumbent's progress by more than the margin (ties: earlier pair, zero-shot first). All
+ * decisions use the walkers as they were at the start of the phase, so order does not matter.
+ */
+export async function transferPhase(ctx: RunContext, draft: Draft, evaluator: Evaluator): Promise<void> {
+  if (draft.pairs.length < 2) return;
+  const targets = await zeroShot(ctx, draft, evaluator);
+  await fineTune(ctx, draft, evaluator, targets);
+  const margin = ctx.recipe.transfer.margin;
+  draft.pairs = targets.map(({ pair, incumbent, offers }) => {
+    let best: Offer | null = null;
+    for (const o of offers) if (!best || o.progress > best.progress) best = o;
+    if (!best || best.progress <= incumbent + margin) return pair;
+    const walkerId = draft.newWalkerId();
+    const course = draft.course(pair.courseId);
+    draft.setCourse({ ...course, holders: [...course.holders, { walkerId, since: draft.iteration, how: best.how }] });
+    draft.noteBest(pair.courseId, best.progress, walkerId, best.params);
+    draft.counters.takeovers++;
+    draft.events.push({
+      type: 'takeover', iteration: draft.iteration, courseId: pair.courseId, fromCourse: best.from.courseId, walkerId: best.from.walkerId,
+      newWalkerId: walkerId, how: best.how, progress: best.progress, incumbentProgress: incumbent,
+    });
+    return { courseId: pair.courseId, walkerId, es: freshEs(ctx, best.params, `course/${pair.courseId}/walker/${walkerId}/es-noise`), progress: best.progress };
+  });
+}

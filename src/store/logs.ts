@@ -1,0 +1,40 @@
+import { appendFileSync, existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { writeFileAtomic } from './atomic.js';
+
+export const METRICS = 'metrics.jsonl';
+export const EVENTS = 'events.jsonl';
+
+/** Appends records as JSON lines in one write, so a crash leaves at most one partial last line. */
+export function appendLines(path: string, records: readonly unknown[]): void {
+  if (records.length === 0) return;
+  appendFileSync(path, records.map((r) => `${JSON.stringify(r)}\n`).join(''));
+}
+
+/** Parsed records of a JSON-lines file; a partial or unparsable line (from a crash) is skipped. */
+export function readLines<T>(path: string): T[] {
+  if (!existsSync(path)) return [];
+  const out: T[] = [];
+  for (const line of readFileSync(path, 'utf8').split('\n')) {
+    if (line.trim() === '') continue;
+    try {
+      out.push(JSON.parse(line) as T);
+    } catch {
+      // A torn last line from an interrupted append: the checkpoint decides what counts.
+    }
+  }
+  return out;
+}
+
+/**
+ * Drops log lines past `iteration` (written after the checkpoint a run resumes from), and any
+ * torn line, so the logs continue exactly as an uninterrupted run's would.
+ */
+export function truncateLogs(dir: string, iteration: number): void {
+  for (const name of [METRICS, EVENTS]) {
+    const path = join(dir, name);
+    if (!existsSync(path)) continue;
+    const kept = readLines<{ iteration: number }>(path).filter((r) => r.iteration <= iteration);
+    writeFileAtomic(path, kept.map((r) => `${JSON.stringify(r)}\n`).join(''));
+  }
+}

@@ -1,0 +1,82 @@
+import { existsSync, mkdirSync, readdirSync, rmSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { loadBodyPlan, type BodyPlan } from '../body/index.js';
+import { hashValue, readJsonFile, UserError } from '../core/index.js';
+import { loadRecipe, parseRecipe, type Recipe } from '../coevo/index.js';
+import { loadFamily, type TerrainFamily } from '../terrain/index.js';
+import { writeFileAtomic } from './atomic.js';
+
+export const RECIPE = 'recipe.json';
+export const FAMILY = 'family.json';
+export const BODY = 'body.json';
+
+/** A run's fixed inputs as read from (or about to be written to) its directory. */
+export interface RunInputs {
+  readonly dir: string;
+  readonly recipe: Recipe;
+  readonly family: TerrainFamily;
+  readonly plan: BodyPlan;
+  /** Hash of everything that shapes the run's trajectory: recipe (less its budget), family and body plan. */
+  readonly recipeHash: string;
+}
+
+export function recipeHashOf(recipe: Recipe, family: TerrainFamily, plan: BodyPlan): string {
+  const { budget: _budget, terrain: _t, body: _b, ...rest } = recipe;
+  return hashValue({ recipe: rest, family, plan });
+}
+
+/** Overrides from the command line, applied before freezing. */
+export interface RunOverrides {
+  readonly seed?: number;
+  readonly iterations?: number;
+  readonly minutes?: number;
+}
+
+/**
+ * Validates a recipe and everything it names, then creates the run directory with the frozen
+ * recipe (defaults filled in) and copies of the terrain family and body plan, so the run never
+ * depends on files outside it. Refuses an existing, non-empty directory. Nothing is written
+ * unless all inputs are valid.
+ */
+export function createRunDir(recipePath: string, out: string | undefined, o: RunOverrides): RunInputs {
+  const loaded = loadRecipe(recipePath);
+  const recipe: Recipe = {
+    ...loaded,
+    seed: o.seed ?? loaded.seed,
+    budget: { iterations: o.iterations ?? loaded.budget.iterations, minutes: o.minutes ?? loaded.budget.minutes },
+  };
+  const family = loadFamily(recipe.terrain);
+  const plan = loadBodyPlan(recipe.body);
+  const dir = resolve(out ?? join('runs', recipe.name));
+  if (existsSync(dir) && readdirSync(dir).length > 0) {
+    throw new UserError(`Run directory ${dir} already exists; to continue that run use \`cairn resume ${dir}\`, or choose another --out`);
+  }
+  const frozen: Recipe = { ...recipe, terrain: FAMILY, body: BODY };
+  mkdirSync(join(dir, 'checkpoints'), { recursive: true });
+  try {
+    writeFileAtomic(join(dir, FAMILY), `${JSON.stringify(family, null, 2)}\n`);
+    writeFileAtomic(join(dir, BODY), `${JSON.stringify(plan, null, 2)}\n`);
+    writeFileAtomic(join(dir, RECIPE), `${JSON.stringify(frozen, null, 2)}\n`);
+  } catch (e) {
+    rmSync(dir, { recursive: true, force: true });
+    throw e;
+  }
+  return { dir, recipe: frozen, family, plan, recipeHash: recipeHashOf(frozen, family, plan) };
+}
+
+/** Reads a run directory's frozen inputs. */
+export function openRunDir(dirArg: string): RunInputs {
+  const dir = resolve(dirArg);
+  if (!existsSync(join(dir, RECIPE))) throw new UserError(`${dirArg} is not a cairn run directory (no ${RECIPE} in it)`);
+  const recipe = parseRecipe(readJsonFile(join(dir, RECIPE), 'Recipe'), join(dir, RECIPE));
+  const family = loadFamily(join(dir, FAMILY));
+  const plan = loadBodyPlan(join(dir, BODY));
+  return { dir, recipe, family, plan, recipeHash: recipeHashOf(recipe, family, plan) };
+}
+
+/** Rewrites the frozen recipe's budget (the only part a resume may change). */
+export function updateBudget(inputs: RunInputs, iterations: number, minutes: number): RunInputs {
+  const recipe = { ...inputs.recipe, budget: { iterations, minutes } };
+  writeFileAtomic(join(inputs.dir, RECIPE), `${JSON.stringify(recipe, null, 2)}\n`);
+  return { ...inputs, recipe };
+}
