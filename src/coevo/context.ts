@@ -113,7 +113,8 @@ export class BatchBuilder {
 
   private readonly extraOptions: RolloutOptions[] = [];
 
-  private pushOption(base: 0 | 1, push: number): number {
+  /** Index of the run's (0) or strict (1) episode options with a push on the torso at the start. */
+  pushOption(base: 0 | 1, push: number): number {
     const o = { ...(base === 0 ? this.ctx.rollout : this.ctx.strictRollout), push };
     return 2 + this.extraOptions.push(o) - 1;
   }

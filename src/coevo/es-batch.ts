@@ -8,6 +8,8 @@ export interface EsSlots {
   readonly plan: number;
   readonly shape: number;
   readonly options: number;
+  /** Options of the mean's own (unperturbed) evaluation; defaults to `options`. */
+  readonly meanOptions?: number;
   /** Index of the current mean in the batch's `bases`. */
   readonly base: number;
 }
@@ -26,7 +28,7 @@ export function planEsStep(state: EsState, config: EsConfig, slots: EsSlots, tas
   const { seeds, state: asked } = ask(state, config);
   const first = tasks.length;
   const common = { kind: 'rollout', course: slots.course, plan: slots.plan, shape: slots.shape, options: slots.options } as const;
-  tasks.push({ ...common, policy: { kind: 'params', params: state.mean } });
+  tasks.push({ ...common, options: slots.meanOptions ?? slots.options, policy: { kind: 'params', params: state.mean } });
   for (const seed of seeds) {
     tasks.push({ ...common, policy: { kind: 'perturbed', base: slots.base, seed, sign: 1, sigma: config.sigma } });
     tasks.push({ ...common, policy: { kind: 'perturbed', base: slots.base, seed, sign: -1, sigma: config.sigma } });

@@ -45,6 +45,8 @@ export const recipeSchema = z
         stallSeconds: num(0.1, 3600).default(3),
         stallDistance: num(0, 100).default(0.1),
         fallPenalty: num(0, 10).default(0.05),
+        /** Largest horizontal push on the torso at the start of ES candidate rollouts, N·s (0 = none). */
+        trainingPush: num(0, 100).default(0.2),
         timeStep: num(1e-4, 0.1).default(0.02),
         velocityIterations: int(1, 500).default(20),
         positionIterations: int(1, 500).default(10),

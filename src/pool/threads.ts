@@ -68,10 +68,12 @@ export class ThreadEvaluator implements Evaluator {
     this.pool.acquire(this.file, (err, worker) => {
       if (err) throw err;
       const slot: Slot = { worker, job: null, tablesFor: -1, timer: null, dead: false };
-      worker.unref();
       worker.on('message', (m: FromWorker) => this.onDone(slot, m));
       worker.on('error', (e) => this.onFailure(slot, `worker threw: ${e.message}`));
       worker.on('exit', (code) => this.onFailure(slot, `worker exited with code ${code}`));
+      // After the listeners: Node refs a worker's message port again when the first 'message'
+      // listener is added, and a thread that never ran a job would then keep the process alive.
+      worker.unref();
       if (this.closed) void worker.terminate();
       else {
         this.slots.push(slot);

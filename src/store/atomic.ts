@@ -4,6 +4,17 @@ import { basename, dirname, join } from 'node:path';
 /** Prefix of temporary files; anything starting with it in a run directory is stale and may be removed. */
 export const TEMP_PREFIX = '.tmp-';
 
+/** A failed write, naming the file it was for. */
+export class WriteError extends Error {
+  readonly code: string | undefined;
+
+  constructor(readonly path: string, cause: Error) {
+    super(`could not write ${path}: ${cause.message}`);
+    this.name = 'WriteError';
+    this.code = (cause as NodeJS.ErrnoException).code;
+  }
+}
+
 /** Writes every byte, retrying short writes. */
 function writeAll(fd: number, data: Buffer): void {
   let off = 0;
@@ -31,7 +42,7 @@ export function writeFileAtomic(path: string, data: string | Uint8Array): void {
   } catch (e) {
     if (fd >= 0) closeSync(fd);
     rmSync(tmp, { force: true });
-    throw e;
+    throw new WriteError(path, e as Error);
   }
   syncDir(dir);
 }

@@ -52,8 +52,15 @@ export async function drive(inputs: RunInputs, start: RunState, o: DriveOptions)
       }
     }
     if (reason === 'done' && o.stopRequested()) reason = o.stopRequested()!;
-  } finally {
-    if (state.iteration > saved) writeCheckpoint(inputs.dir, state, inputs.recipeHash, keep);
+  } catch (e) {
+    // Save the last finished iteration if the disk allows; the original error is what matters.
+    try {
+      if (state.iteration > saved) writeCheckpoint(inputs.dir, state, inputs.recipeHash, keep);
+    } catch {
+      // The previous checkpoint is intact (atomic writes); nothing more to do.
+    }
+    throw e;
   }
+  if (state.iteration > saved) writeCheckpoint(inputs.dir, state, inputs.recipeHash, keep);
   return { state, reason };
 }

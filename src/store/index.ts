@@ -1,4 +1,4 @@
-export { writeFileAtomic, syncDir, TEMP_PREFIX } from './atomic.js';
+export { writeFileAtomic, syncDir, TEMP_PREFIX, WriteError } from './atomic.js';
 export { loadWalker, saveWalker, WALKER_FORMAT } from './walker-file.js';
 export type { WalkerFile } from './walker-file.js';
 export { CHECKPOINT_VERSION, writeCheckpoint, listCheckpoints, readCheckpoint, loadNewestCheckpoint, removeStaleTemps, checkpointPath, writerVersions } from './checkpoint.js';

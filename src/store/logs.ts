@@ -1,6 +1,6 @@
 import { appendFileSync, existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { writeFileAtomic } from './atomic.js';
+import { WriteError, writeFileAtomic } from './atomic.js';
 
 export const METRICS = 'metrics.jsonl';
 export const EVENTS = 'events.jsonl';
@@ -8,7 +8,11 @@ export const EVENTS = 'events.jsonl';
 /** Appends records as JSON lines in one write, so a crash leaves at most one partial last line. */
 export function appendLines(path: string, records: readonly unknown[]): void {
   if (records.length === 0) return;
-  appendFileSync(path, records.map((r) => `${JSON.stringify(r)}\n`).join(''));
+  try {
+    appendFileSync(path, records.map((r) => `${JSON.stringify(r)}\n`).join(''));
+  } catch (e) {
+    throw new WriteError(path, e as Error);
+  }
 }
 
 /** Parsed records of a JSON-lines file; a partial or unparsable line (from a crash) is skipped. */
