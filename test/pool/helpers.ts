@@ -1,0 +1,131 @@
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, readdirSync, rmSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { actionSize, loadBodyPlan, observationSize } from '../../src/body/index.js';
+import { sha256, stream } from '../../src/core/index.js';
+import { initParams, type PolicyShape } from '../../src/policy/index.js';
+import { InlineEvaluator, emptyBatch, type Batch, type FaultTask, type PolicyRef, type Task } from '../../src/pool/index.js';
+import { defaultRolloutOptions, type RolloutResult } from '../../src/sim/index.js';
+import { buildCourse, loadFamily } from '../../src/terrain/index.js';
+
+export const ROOT = fileURLToPath(new URL('../../', import.meta.url));
+export const WORKER_JS = join(ROOT, 'dist/pool/worker.js');
+
+/** Newest modification time of any TypeScript source under src/, ms. */
+function newestSource(): number {
+  const dir = join(ROOT, 'src');
+  return Math.max(...readdirSync(dir, { recursive: true, encoding: 'utf8' })
+    .filter((f) => f.endsWith('.ts'))
+    .map((f) => statSync(join(dir, f)).mtimeMs));
+}
+
+function stale(): boolean {
+  return !existsSync(WORKER_JS) || statSync(WORKER_JS).mtimeMs < newestSource();
+}
+
+function sleep(ms: number): void {
+  Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
+}
+
+/**
+ * Compiles src/ to dist/ when the worker script is missing or older than any source: the
+ * ThreadEvaluator runs dist/pool/worker.js even under vitest. Test files run in parallel, so a
+ * lock directory keeps two compilers from rewriting dist/ under a worker that is loading it.
+ */
+export function ensureBuilt(): void {
+  if (!stale()) return;
+  const lock = join(tmpdir(), `cairn-build-${sha256(ROOT).slice(0, 12)}.lock`);
+  for (;;) {
+    try { mkdirSync(lock); break; } catch {
+      // A lock left by a killed run must not block forever.
+      const since = statSync(lock, { throwIfNoEntry: false })?.mtimeMs ?? Date.now();
+      if (Date.now() - since > 180_000) rmSync(lock, { recursive: true, force: true });
+      sleep(200);
+    }
+  }
+  try {
+    if (!stale()) return;
+    const tsc = spawnSync(process.execPath, [join(ROOT, 'node_modules/typescript/bin/tsc'), '-p', '.'], { cwd: ROOT, encoding: 'utf8' });
+    // tsc emits even with type errors; only a worker script still missing or stale is fatal here.
+    if (stale()) throw new Error(`could not build ${WORKER_JS}:\n${tsc.stdout}${tsc.stderr}`);
+  } finally {
+    rmSync(lock, { recursive: true, force: true });
+  }
+}
+
+/**
+ * Step budgets of the fault tests' rollouts. Short, because those tests give each task a time
+ * limit of {@link TASK_LIMIT_MS}, and a rollout on a freshly started thread, still unoptimised
+ * by the JIT, may run many times slower on a CPU shared with other test runs.
+ */
+export const SHORT: readonly [number, number] = [80, 120];
+
+/** Time limit of one task in the fault tests, ms: tens of ms of warm work, ~1 s of it cold. */
+export const TASK_LIMIT_MS = 4000;
+
+const family = loadFamily(join(ROOT, 'envs/terrain/starter.json'));
+const plan = loadBodyPlan(join(ROOT, 'envs/bodies/trestle.json'));
+const shape: PolicyShape = { inputs: observationSize(plan), hidden: [], outputs: actionSize(plan), activation: 'tanh' };
+
+/** Random linear weights; full-size outputs (not the 0.1 default) so every walker moves differently. */
+function weights(seed: number, label: string): number[] {
+  return Array.from(initParams(shape, stream(seed, label), { outputScale: 1 }));
+}
+
+/**
+ * `count` short rollouts on the flat starter course with the trestle body. Every task has its
+ * own weights (alternately given outright and as ± perturbations of one of two bases) and
+ * alternates between two step budgets, so the tasks' results are told apart. `salt` makes
+ * another batch of the same shape with different weights.
+ */
+export function rolloutBatch(count: number, salt = 0, maxSteps: readonly [number, number] = [200, 300]): Batch {
+  const b = emptyBatch();
+  b.courses.push(buildCourse(family.start, family));
+  b.plans.push(plan);
+  b.shapes.push(shape);
+  b.options.push(...maxSteps.map((n) => ({ ...defaultRolloutOptions(), maxSteps: n })));
+  b.bases.push(weights(salt, 'pool-test/base-0'), weights(salt, 'pool-test/base-1'));
+  for (let i = 0; i < count; i++) {
+    const seed = 1000 * salt + i;
+    const policy: PolicyRef = i % 3 === 0
+      ? { kind: 'params', params: weights(seed, 'pool-test/params') }
+      : { kind: 'perturbed', base: i % 2, seed, sign: i % 4 < 2 ? 1 : -1, sigma: 0.1 };
+    b.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: i % 2, policy });
+  }
+  return b;
+}
+
+/** A copy of `batch` with `task` inserted at index `at`. */
+export function withTask(batch: Batch, at: number, task: Task): Batch {
+  const tasks = [...batch.tasks];
+  tasks.splice(at, 0, task);
+  return { ...batch, tasks };
+}
+
+/** A copy of `batch` with its tasks in reverse order. */
+export function reversed(batch: Batch): Batch {
+  return { ...batch, tasks: [...batch.tasks].reverse() };
+}
+
+/** Results computed in this thread: the reference every worker count must reproduce. */
+export function inline(batch: Batch): Promise<RolloutResult[]> {
+  return new InlineEvaluator().evaluate(batch);
+}
+
+/**
+ * Inline results of `batch` once its fault tasks stop failing: each fault task gives the fixed
+ * result it returns after its last failing attempt. (Run as they are, they would throw, exit
+ * or hang this thread: the inline evaluator has no retries.)
+ */
+export function inlineRecovered(batch: Batch): Promise<RolloutResult[]> {
+  const tasks = batch.tasks.map((t): Task => (t.kind === 'fault' ? { ...t, untilAttempt: 0 } : t));
+  return inline({ ...batch, tasks });
+}
+
+/** The fixed result a fault task returns once it stops failing, taken from the inline evaluator. */
+export async function faultResult(mode: FaultTask['mode']): Promise<RolloutResult> {
+  const [r] = await inlineRecovered({ ...emptyBatch(), tasks: [{ kind: 'fault', mode, untilAttempt: 1 }] });
+  return r;
+}
