@@ -4,3 +4,7 @@ export { benchRollouts } from './rollout-bench.js';
 export type { RolloutBench } from './rollout-bench.js';
 export { benchPool, benchScaling, benchBatch, timeBatch } from './pool-bench.js';
 export type { PoolBench, ScalingPoint } from './pool-bench.js';
+export { benchLearning } from './learn-bench.js';
+export type { LearnBench, LearnRun } from './learn-bench.js';
+export { benchCheckpoint, benchSoak } from './run-bench.js';
+export type { CheckpointBench, SoakBench } from './run-bench.js';

@@ -64,3 +64,20 @@ export function sense(walker: Walker, rays: CourseRays, dirs: Float64Array, out:
   const range = walker.plan.rays.range;
   for (let r = 0; r < dirs.length; r += 2) out[k++] = rays.cast(p.x, p.y, dirs[r], dirs[r + 1], range);
 }
+
+/** Names of the observation entries, in order (see `observationSize` for units and scales). */
+export function observationNames(plan: BodyPlan): string[] {
+  const joints = plan.joints.map((j) => j.name);
+  const { count, fromAngle, toAngle } = plan.rays;
+  const rays = Array.from({ length: count }, (_, i) => {
+    const a = count === 1 ? fromAngle : fromAngle + ((toAngle - fromAngle) * i) / (count - 1);
+    return `ray${i}@${Math.round(a * 100) / 100}deg`;
+  });
+  return [
+    ...joints.map((j) => `${j}.angle`),
+    ...joints.map((j) => `${j}.speed`),
+    'torso.angle', 'torso.angularVelocity', 'torso.vx', 'torso.vy',
+    ...plan.segments.filter((s) => s.foot).map((s) => `${s.name}.contact`),
+    ...rays,
+  ];
+}

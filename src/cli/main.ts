@@ -5,6 +5,7 @@ import { registerEval } from './commands/eval.js';
 import { registerTrain } from './commands/train.js';
 import { registerRun } from './commands/run.js';
 import { registerStatus } from './commands/status.js';
+import { registerExport } from './commands/export.js';
 import { EXIT, reportError } from './fail.js';
 
 const program = new Command();
@@ -17,6 +18,7 @@ program
   .configureOutput({ writeErr: (s) => process.stderr.write(s.startsWith('error:') ? `cairn: ${s}` : s) });
 registerRun(program);
 registerStatus(program);
+registerExport(program);
 registerEval(program);
 registerTrain(program);
 registerBench(program);

@@ -1,11 +1,13 @@
 import { dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
-import { benchPool, benchRollouts, benchScaling, benchScene } from '../../bench/index.js';
+import { benchCheckpoint, benchLearning, benchPool, benchRollouts, benchScaling, benchScene, benchSoak } from '../../bench/index.js';
+import { defaultWorkerCount, makeEvaluator } from '../../pool/index.js';
+import { intIn } from '../options.js';
 import { InvalidArgumentError } from 'commander';
 import { Progress } from '../progress.js';
 
-interface BenchOptions { json?: boolean; quick?: boolean; scaling?: number[]; quiet?: boolean }
+interface BenchOptions { json?: boolean; quick?: boolean; scaling?: number[]; quiet?: boolean; learn?: number; checkpoint?: string; soak?: number; workers: number }
 
 function counts(v: string): number[] {
   const list = v.split(',').map((p) => Number(p.trim()));
@@ -30,8 +32,9 @@ async function benchAction(o: BenchOptions): Promise<void> {
     progress.update(`scaling over ${o.scaling.join(', ')} workers...`, true);
     scaling = await benchScaling(scene, o.scaling, 256, 500, o.quick ? 2 : 3);
   }
+  const extra = await extras(o, root, progress);
   progress.done();
-  const report = { ...r, ...p, ...(scaling ? { scaling } : {}), node: process.version, cores: (await import('node:os')).availableParallelism() };
+  const report = { ...r, ...p, ...(scaling ? { scaling } : {}), ...extra.json, node: process.version, cores: (await import('node:os')).availableParallelism() };
   if (o.json) {
     process.stdout.write(`${JSON.stringify(report)}\n`);
     return;
@@ -49,8 +52,44 @@ async function benchAction(o: BenchOptions): Promise<void> {
     ['per-task overhead', `${fmt(p.perTaskOverheadMs, 3)} ms`, ''],
   ];
   for (const s of scaling ?? []) rows.push([`${s.workers} workers, 256 rollouts`, `${fmt(s.ms)} ms  speed-up ${fmt(s.speedup, 2)}  efficiency ${fmt(100 * s.efficiency)}%`, '']);
+  rows.push(...extra.rows);
   const w = Math.max(...rows.map((x) => x[0].length));
   for (const [a, b, c] of rows) process.stdout.write(`${a.padEnd(w)}  ${b}${c ? `  (${c})` : ''}\n`);
+}
+
+type Row = [string, string, string];
+
+/** The optional sections: learning to walk, checkpoint cost, memory over a long run. */
+async function extras(o: BenchOptions, root: string, progress: Progress): Promise<{ json: Record<string, unknown>; rows: Row[] }> {
+  const json: Record<string, unknown> = {};
+  const rows: Row[] = [];
+  if (!o.learn && !o.checkpoint && !o.soak) return { json, rows };
+  const evaluator = makeEvaluator(o.workers);
+  try {
+    if (o.learn) {
+      progress.update(`learning to walk, ${o.learn} seeds...`, true);
+      const l = await benchLearning(root, Array.from({ length: o.learn }, (_, i) => i + 1), 0.9, 200, evaluator);
+      json.learning = l;
+      rows.push(['learn to walk (progress 0.9), iterations', `median ${l.medianIterations}, worst ${l.worstIterations} (${l.runs.map((x) => x.iterations).join(', ')})`, '']);
+      rows.push(['learn to walk, wall time', `median ${fmt(l.medianSeconds, 1)} s, worst ${fmt(l.worstSeconds, 1)} s`, 'target 60 s / 180 s']);
+    }
+    if (o.checkpoint) {
+      progress.update(`checkpoint cost on ${o.checkpoint}...`, true);
+      const c = await benchCheckpoint(o.checkpoint, evaluator, 3);
+      json.checkpoint = c;
+      rows.push(['checkpoint write', `${fmt(c.writeMs, 1)} ms for ${fmt(c.checkpointBytes / 1024)} KiB; iteration ${fmt(c.iterationMs)} ms; share ${fmt(100 * c.share, 2)}%`, 'target < 2%']);
+    }
+    if (o.soak) {
+      progress.update(`memory over ${o.soak} iterations of runs/smoke.json...`, true);
+      const s = await benchSoak(`${root}/runs/smoke.json`, evaluator, o.soak);
+      json.soak = { iterations: s.iterations, growthAfterWarmupMiB: s.growthAfterWarmupMiB, rssMiB: s.rssMiB.map((x) => Math.round(x * 10) / 10) };
+      const q = (f: number): string => fmt(s.rssMiB[Math.min(s.rssMiB.length - 1, Math.floor(f * s.rssMiB.length))], 1);
+      rows.push([`resident memory, ${s.iterations} smoke iterations`, `${q(0.25)} → ${q(0.5)} → ${q(0.75)} → ${q(1)} MiB (growth after warm-up ${fmt(s.growthAfterWarmupMiB, 1)} MiB)`, 'target: flat']);
+    }
+  } finally {
+    await evaluator.close();
+  }
+  return { json, rows };
 }
 
 export function registerBench(program: Command): void {
@@ -60,6 +99,10 @@ export function registerBench(program: Command): void {
     .option('--json', 'print one JSON object')
     .option('--quick', 'fewer and shorter runs (rough figures)')
     .option('--scaling <counts>', 'also time a 256-rollout batch for each worker count, e.g. 1,2,4,8,16', counts)
+    .option('--learn <seeds>', 'also train the demo body on flat ground for this many seeds (time to progress 0.9)', intIn(1, 100))
+    .option('--checkpoint <run-dir>', 'also time checkpoint writes against iterations of this run')
+    .option('--soak <iterations>', 'also track resident memory over this many iterations of runs/smoke.json', intIn(1, 1_000_000))
+    .option('--workers <n>', 'worker threads for --learn, --checkpoint and --soak', intIn(0, 1024), defaultWorkerCount())
     .option('--quiet', 'no progress on stderr')
     .action(benchAction);
 }

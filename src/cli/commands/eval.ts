@@ -7,13 +7,51 @@ import { defaultRolloutOptions } from '../../sim/index.js';
 import { loadWalker, writeFileAtomic } from '../../store/index.js';
 import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
 import { hiddenSizes, intIn, oneOf } from '../options.js';
+import { bodyOf, courseOf, findCourse, loadCurriculum, loadSafetensorsWalker, rolloutOptionsOf, walkerRefOf } from '../../export/index.js';
+
+const DEFAULT_BODY = 'envs/bodies/trestle.json';
 
 interface EvalOptions {
   terrain: string; family?: string; body: string; walker?: string; seed: number; hidden: number[];
   activation: 'tanh' | 'relu' | 'linear'; steps: number; json?: boolean; trace?: string; workers?: number;
+  curriculum?: string; course?: number;
+}
+
+/** One rollout of an exported walker on an exported course, under the run's own settings. */
+async function evalCurriculum(o: EvalOptions): Promise<void> {
+  if (o.course === undefined) throw new UserError('--curriculum needs --course ID');
+  const cur = loadCurriculum(o.curriculum!);
+  const entry = findCourse(cur, o.course);
+  const plan = o.body === DEFAULT_BODY ? bodyOf(cur) : loadBodyPlan(o.body);
+  const ref = walkerRefOf(cur, entry);
+  const w = o.walker ? loadSafetensorsWalker(o.walker) : loadSafetensorsWalker(ref.path, ref.sha256);
+  if (w.shape.inputs !== observationSize(plan) || w.shape.outputs !== actionSize(plan)) {
+    throw new UserError(`Walker ${o.walker ?? ref.path}: network takes ${w.shape.inputs} inputs and gives ${w.shape.outputs} outputs; body plan "${plan.name}" needs ${observationSize(plan)} and ${actionSize(plan)}`);
+  }
+  const batch = emptyBatch();
+  batch.courses.push(courseOf(entry));
+  batch.plans.push(plan);
+  batch.shapes.push(w.shape);
+  batch.options.push({ ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 });
+  batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params: Array.from(w.params) } });
+  const evaluator = makeEvaluator(o.workers ?? 0);
+  try {
+    const [r] = await evaluator.evaluate(batch);
+    if (o.trace && r.trace) writeFileAtomic(o.trace, `${JSON.stringify({ course: batch.courses[0], plan: plan.name, trace: r.trace })}\n`);
+    const expected = o.walker ? null : ref.progress;
+    const summary = { course: entry.id, progress: r.progress, fitness: r.fitness, steps: r.steps, fell: r.fell, end: r.end, exportedProgress: expected, matchesExport: expected === null ? null : r.progress === expected };
+    if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
+    else {
+      const match = expected === null ? '' : r.progress === expected ? '  (equals the exported figure)' : `  (exported figure was ${expected})`;
+      process.stdout.write(`course ${entry.id}: progress ${r.progress.toFixed(4)}${match}  steps ${r.steps}  ${r.fell ? 'fell' : 'did not fall'}  ended: ${r.end}\n`);
+    }
+  } finally {
+    await evaluator.close();
+  }
 }
 
 async function evalAction(o: EvalOptions): Promise<void> {
+  if (o.curriculum !== undefined) return evalCurriculum(o);
   const src = loadTerrainSource(o.terrain, o.family);
   const course = buildCourse(src.genome, src.family);
   const walker = o.walker ? loadWalker(o.walker) : undefined;
@@ -55,7 +93,7 @@ export function registerEval(program: Command): void {
     .description('run one rollout of a walker on a course and print progress, fitness, steps and whether it fell')
     .option('--terrain <file>', 'terrain family (its start genome) or genome file', 'envs/terrain/starter.json')
     .option('--family <file>', 'terrain family of a bare genome file')
-    .option('--body <file>', 'body plan', 'envs/bodies/trestle.json')
+    .option('--body <file>', 'body plan (with --curriculum: the exported one)', DEFAULT_BODY)
     .option('--walker <file>', 'walker file (weights); without it a walker is initialised from --seed')
     .option('--seed <n>', 'seed of a random walker', intIn(0, 2 ** 31 - 1), 1)
     .option('--hidden <sizes>', 'hidden layer sizes of a random walker, e.g. 32,32 (none = linear)', hiddenSizes, [])
@@ -63,6 +101,8 @@ export function registerEval(program: Command): void {
     .option('--steps <n>', 'step budget', intIn(1, 10_000_000), 3000)
     .option('--workers <n>', 'evaluate on a worker thread (1) or in this thread (0)', intIn(0, 1), 0)
     .option('--trace <file>', 'also write the course and the walker poses (every 5 steps) as JSON')
+    .option('--curriculum <file>', 'an exported curriculum.json: evaluate on one of its courses')
+    .option('--course <id>', 'course id in --curriculum', intIn(0, 2 ** 31 - 1))
     .option('--json', 'print one JSON object')
     .action(evalAction);
 }

@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { fingerprint, initialState, makeContext, type RunState, type StepOutcome } from '../../coevo/index.js';
 import { defaultWorkerCount, makeEvaluator } from '../../pool/index.js';
 import {
-  createRunDir, drive, logPoolEvent, openRun, removeStaleTemps, takeLock, truncateLogs, updateBudget, writeCheckpoint, type RunInputs,
+  createRunDir, drive, logPoolEvent, openRun, openRunDir, removeStaleTemps, takeLock, truncateLogs, updateBudget, writeCheckpoint, type RunInputs,
 } from '../../store/index.js';
 import { EXIT } from '../fail.js';
 import { intIn, numberIn } from '../options.js';
@@ -20,11 +20,10 @@ function progressLine(o: StepOutcome, target: number, t0: number, startIt: numbe
     `best ${m.bestProgress.toFixed(2)}  ${rate.toFixed(1)} it/min  ETA ${formatDuration(eta * 60)}`;
 }
 
-/** Shared by run and resume: lock, drive, report, exit code. */
-async function loop(inputs: RunInputs, start: RunState, o: LoopOptions): Promise<void> {
+/** Shared by run and resume: drive, report, exit code. The caller holds the lock. */
+async function loop(inputs: RunInputs, start: RunState, o: LoopOptions, lockNote: string | null): Promise<void> {
   const progress = new Progress(o.quiet === true);
-  const lock = takeLock(inputs.dir);
-  if (lock.note) progress.note(lock.note);
+  if (lockNote) progress.note(lockNote);
   const stops = installStopHandlers((s) => progress.note(s));
   const evaluator = makeEvaluator(o.workers, { onEvent: (e) => { logPoolEvent(inputs.dir, e); progress.note(`worker replaced (${e.reason}); tasks ${e.tasks.join(', ')} re-run`); } });
   const t0 = performance.now();
@@ -46,6 +45,15 @@ async function loop(inputs: RunInputs, start: RunState, o: LoopOptions): Promise
   } finally {
     stops.remove();
     await evaluator.close();
+  }
+}
+
+/** Runs `body` holding the run directory's lock, released however it ends. */
+async function withLock(dir: string, body: (note: string | null) => Promise<void>): Promise<void> {
+  const lock = takeLock(dir);
+  try {
+    await body(lock.note);
+  } finally {
     lock.release();
   }
 }
@@ -54,23 +62,28 @@ interface RunOptions extends LoopOptions { out?: string; seed?: number; iteratio
 
 async function runAction(recipePath: string, o: RunOptions): Promise<void> {
   const inputs = createRunDir(recipePath, o.out, { seed: o.seed, iterations: o.iterations, minutes: o.minutes });
-  const state = initialState(makeContext(inputs.recipe, inputs.family, inputs.plan));
-  writeCheckpoint(inputs.dir, state, inputs.recipeHash, inputs.recipe.checkpoint.keep);
-  if (!o.quiet) process.stderr.write(`run directory ${inputs.dir}\n`);
-  await loop(inputs, state, o);
+  await withLock(inputs.dir, async (note) => {
+    const state = initialState(makeContext(inputs.recipe, inputs.family, inputs.plan));
+    writeCheckpoint(inputs.dir, state, inputs.recipeHash, inputs.recipe.checkpoint.keep);
+    if (!o.quiet) process.stderr.write(`run directory ${inputs.dir}\n`);
+    await loop(inputs, state, o, note);
+  });
 }
 
 interface ResumeOptions extends LoopOptions { iterations?: number; minutes?: number }
 
 async function resumeAction(dir: string, o: ResumeOptions): Promise<void> {
-  removeStaleTemps(dir);
-  const opened = openRun(dir);
-  for (const s of opened.skipped) process.stderr.write(`cairn: skipped checkpoint ${s.file}: ${s.reason}; falling back to an older one\n`);
-  const b = opened.inputs.recipe.budget;
-  const inputs = updateBudget(opened.inputs, o.iterations ?? b.iterations, o.minutes ?? 0);
-  truncateLogs(inputs.dir, opened.state.iteration);
-  if (!o.quiet) process.stderr.write(`resuming ${inputs.dir} at iteration ${opened.state.iteration}\n`);
-  await loop(inputs, opened.state, o);
+  // The lock comes before any write: temp files, logs and budget of a live run are its own.
+  await withLock(openRunDir(dir).dir, async (note) => {
+    removeStaleTemps(dir);
+    const opened = openRun(dir);
+    for (const s of opened.skipped) process.stderr.write(`cairn: skipped checkpoint ${s.file}: ${s.reason}; falling back to an older one\n`);
+    const b = opened.inputs.recipe.budget;
+    const inputs = updateBudget(opened.inputs, o.iterations ?? b.iterations, o.minutes ?? 0);
+    truncateLogs(inputs.dir, opened.state.iteration);
+    if (!o.quiet) process.stderr.write(`resuming ${inputs.dir} at iteration ${opened.state.iteration}\n`);
+    await loop(inputs, opened.state, o, note);
+  });
 }
 
 export function registerRun(program: Command): void {

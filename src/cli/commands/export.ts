@@ -1,0 +1,28 @@
+import { join } from 'node:path';
+import type { Command } from 'commander';
+import { writeExport, type Only, type Order } from '../../export/index.js';
+import { openRun } from '../../store/index.js';
+import { oneOf } from '../options.js';
+
+interface ExportOptions { out?: string; order: Order; only: Only; json?: boolean }
+
+function exportAction(dir: string, o: ExportOptions): void {
+  const { inputs, state, skipped } = openRun(dir);
+  for (const s of skipped) process.stderr.write(`cairn: skipped checkpoint ${s.file}: ${s.reason}; exporting an older one\n`);
+  const out = o.out ?? join(inputs.dir, 'exports', 'curriculum');
+  const r = writeExport(inputs, state, out, o.order, o.only);
+  if (o.json) process.stdout.write(`${JSON.stringify({ ...r, iteration: state.iteration })}\n`);
+  else process.stdout.write(`exported ${r.courses} courses and ${r.walkers} walkers (iteration ${state.iteration}) to ${r.dir}\n`);
+}
+
+export function registerExport(program: Command): void {
+  program
+    .command('export')
+    .description('write the courses as an ordered curriculum (JSON with schema, CSV summary, walkers as safetensors)')
+    .argument('<run-dir>', 'run directory (its newest valid checkpoint is exported)')
+    .option('--out <dir>', 'export directory (default <run-dir>/exports/curriculum)')
+    .option('--order <order>', 'admission or difficulty', oneOf(['admission', 'difficulty'] as const), 'admission')
+    .option('--only <which>', 'solved or all courses', oneOf(['solved', 'all'] as const), 'all')
+    .option('--json', 'print a JSON summary')
+    .action(exportAction);
+}

@@ -1,0 +1,11 @@
+export { encodeSafetensors, decodeSafetensors } from './safetensors.js';
+export type { Tensor } from './safetensors.js';
+export { paramsToTensors, tensorsToParams } from './walker-tensors.js';
+export { buildCurriculum, CURRICULUM_FORMAT, CURRICULUM_VERSION, SCHEMA_FILE } from './curriculum.js';
+export type { Order, Only, WalkerBlob } from './curriculum.js';
+export { toCsv, csvField } from './csv.js';
+export { curriculumSchema, curriculumSchemaPath, curriculumProblems, assertCurriculum } from './schema.js';
+export { writeExport } from './write.js';
+export type { ExportResult } from './write.js';
+export { loadCurriculum, findCourse, courseOf, rolloutOptionsOf, bodyOf, loadSafetensorsWalker, walkerRefOf } from './read.js';
+export type { Curriculum, CurriculumEntry } from './read.js';

@@ -1,0 +1,49 @@
+import { copyFileSync, existsSync, mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { basename, dirname, join, resolve } from 'node:path';
+import type { RunState } from '../coevo/index.js';
+import { syncDir, WriteError, type RunInputs } from '../store/index.js';
+import { buildCurriculum, SCHEMA_FILE, type Only, type Order } from './curriculum.js';
+import { assertCurriculum, curriculumSchemaPath } from './schema.js';
+import { summaryCsv } from './summary.js';
+
+export interface ExportResult {
+  readonly dir: string;
+  readonly courses: number;
+  readonly walkers: number;
+}
+
+/**
+ * Writes an export directory: curriculum.json (validated against the shipped schema before
+ * anything is written), its schema, summary.csv, the walkers as safetensors, and copies of the
+ * body plan and terrain family. Everything goes to a temporary sibling directory first, which
+ * replaces `out` only when complete: a failed export leaves no half-written files.
+ */
+export function writeExport(inputs: RunInputs, state: RunState, out: string, order: Order, only: Only): ExportResult {
+  const { curriculum, walkers } = buildCurriculum(inputs, state, order, only);
+  assertCurriculum(curriculum, 'the export');
+  const target = resolve(out);
+  mkdirSync(dirname(target), { recursive: true });
+  const tmp = join(dirname(target), `.tmp-${basename(target)}-${process.pid}`);
+  rmSync(tmp, { recursive: true, force: true });
+  try {
+    mkdirSync(join(tmp, 'walkers'), { recursive: true });
+    writeFileSync(join(tmp, 'curriculum.json'), `${JSON.stringify(curriculum, null, 1)}\n`);
+    copyFileSync(curriculumSchemaPath(), join(tmp, SCHEMA_FILE));
+    writeFileSync(join(tmp, 'summary.csv'), summaryCsv(curriculum.courses as Parameters<typeof summaryCsv>[0], curriculum.descriptorNames as string[]));
+    writeFileSync(join(tmp, 'body.json'), `${JSON.stringify(inputs.plan, null, 2)}\n`);
+    writeFileSync(join(tmp, 'family.json'), `${JSON.stringify(inputs.family, null, 2)}\n`);
+    for (const w of walkers) writeFileSync(join(tmp, w.file), w.bytes);
+    syncDir(join(tmp, 'walkers'));
+    syncDir(tmp);
+    const old = `${tmp}-old`;
+    if (existsSync(target)) renameSync(target, old);
+    renameSync(tmp, target);
+    rmSync(old, { recursive: true, force: true });
+    syncDir(dirname(target));
+  } catch (e) {
+    if (existsSync(`${tmp}-old`) && !existsSync(target)) renameSync(`${tmp}-old`, target);
+    rmSync(tmp, { recursive: true, force: true });
+    throw e instanceof WriteError ? e : new WriteError(target, e as Error);
+  }
+  return { dir: target, courses: (curriculum.courses as unknown[]).length, walkers: walkers.length };
+}
