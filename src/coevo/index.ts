@@ -10,3 +10,5 @@ export type { RunContext } from './context.js';
 export { knnNovelty, performanceProfile } from './novelty.js';
 export { step, metricsOf, fingerprint } from './step.js';
 export type { StepOutcome } from './step.js';
+export { trainCurriculum, trainDirect } from './curriculum-train.js';
+export type { StageCourse, CurriculumTrainSettings, StageReport, PathReport } from './curriculum-train.js';

@@ -12,9 +12,10 @@ import { saveWalker, writeFileAtomic } from '../../store/index.js';
 import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
 import { hiddenSizes, intIn, numberIn, oneOf } from '../options.js';
 import { formatDuration, Progress } from '../progress.js';
+import { trainCurriculumAction, type CurriculumTrainOptions } from './train-curriculum.js';
 
 interface TrainOptions {
-  terrain: string; family?: string; body: string; iterations: number; population: number; sigma: number;
+  terrain: string; family?: string; body?: string; iterations: number; population: number; sigma: number;
   learningRate: number; hidden: number[]; activation: 'tanh' | 'relu' | 'linear'; seed: number; out?: string;
   workers: number; stopAt: number; steps: number; quiet?: boolean; json?: boolean; force?: boolean;
 }
@@ -23,10 +24,11 @@ function stem(path: string): string {
   return basename(path).replace(/\.json$/, '');
 }
 
-async function trainAction(o: TrainOptions): Promise<void> {
+async function trainAction(o: TrainOptions & Partial<CurriculumTrainOptions>): Promise<void> {
+  if (o.curriculum !== undefined) return trainCurriculumAction(o as CurriculumTrainOptions);
   if (o.population % 2 !== 0) throw new UserError(`--population: expected an even number (mirrored pairs), found ${o.population}`);
   const src = loadTerrainSource(o.terrain, o.family);
-  const plan = loadBodyPlan(o.body);
+  const plan = loadBodyPlan(o.body ?? 'envs/bodies/trestle.json');
   const out = o.out ?? join('runs', `train-${stem(o.terrain)}-${plan.name}-s${o.seed}`);
   if (!o.force && existsSync(join(out, 'walker.json'))) throw new UserError(`${out} already holds a trained walker; choose another --out, remove it, or pass --force`);
   const course = buildCourse(src.genome, src.family);
@@ -48,7 +50,7 @@ async function trainAction(o: TrainOptions): Promise<void> {
     const seconds = (performance.now() - t0) / 1000;
     writeFileAtomic(join(out, 'train-log.jsonl'), `${lines.join('\n')}\n`);
     const meta = { terrain: o.terrain, family: src.familyPath, genome: src.genome, iterations: result.log.length, progress: result.finalProgress, seed: o.seed, es };
-    saveWalker(join(out, 'walker.json'), { body: o.body, bodyName: plan.name, shape, params: result.state.mean, meta });
+    saveWalker(join(out, 'walker.json'), { body: o.body ?? 'envs/bodies/trestle.json', bodyName: plan.name, shape, params: result.state.mean, meta });
     const summary = { out, iterations: result.log.length, progress: result.finalProgress, rollouts: result.rollouts, seconds };
     if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
     else process.stdout.write(`trained ${result.log.length} iterations in ${formatDuration(seconds)}: progress ${result.finalProgress.toFixed(3)}; walker written to ${join(out, 'walker.json')}\n`);
@@ -63,7 +65,7 @@ export function registerTrain(program: Command): void {
     .description('train one walker by evolution strategies on one course (the direct path)')
     .option('--terrain <file>', 'terrain family (its start genome) or genome file', 'envs/terrain/starter.json')
     .option('--family <file>', 'terrain family of a bare genome file')
-    .option('--body <file>', 'body plan', 'envs/bodies/trestle.json')
+    .option('--body <file>', 'body plan (default trestle; with --curriculum the exported one)')
     .option('--iterations <n>', 'most ES iterations', intIn(1, 1_000_000), 100)
     .option('--population <n>', 'candidates per iteration (even: mirrored pairs)', intIn(2, 100_000), 32)
     .option('--sigma <x>', 'perturbation scale', numberIn(1e-6, 10), 0.05)
@@ -75,6 +77,11 @@ export function registerTrain(program: Command): void {
     .option('--seed <n>', 'seed', intIn(0, 2 ** 31 - 1), 1)
     .option('--workers <n>', 'worker threads (0 = this thread)', intIn(0, 1024), defaultWorkerCount())
     .option('--out <dir>', 'output directory (default runs/train-<terrain>-<body>-s<seed>)')
+    .option('--curriculum <file>', 'train through an exported curriculum.json, course by course')
+    .option('--policy <sizes>', 'with --curriculum: hidden layer sizes of the fresh walker (like --hidden)', hiddenSizes)
+    .option('--stage-iterations <n>', 'with --curriculum: most ES iterations per course', intIn(1, 1_000_000), 40)
+    .option('--advance-at <progress>', 'with --curriculum: move on once progress reaches this', numberIn(0, 1), 0.9)
+    .option('--compare', 'with --curriculum: also train the direct path on the final course with the same rollout budget')
     .option('--force', 'overwrite a walker already in --out')
     .option('--quiet', 'no progress on stderr')
     .option('--json', 'print a JSON summary')
