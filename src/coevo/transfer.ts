@@ -63,7 +63,7 @@ async function fineTune(ctx: RunContext, draft: Draft, evaluator: Evaluator, tar
 /**
  * Phase 3: for each pair, every other active walker is tried on its course zero-shot and (the
  * best few) after one ES step there; the best offer takes the course over when it beats the
- * incumbent's progress by more than the margin (ties: earlier pair, zero-shot first). All
+ * incumbent's progress by more than the margin (ties: zero-shot before fine-tuned, then earlier pair). All
  * decisions use the walkers as they were at the start of the phase, so order does not matter.
  */
 export async function transferPhase(ctx: RunContext, draft: Draft, evaluator: Evaluator): Promise<void> {
