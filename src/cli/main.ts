@@ -6,6 +6,7 @@ import { registerTrain } from './commands/train.js';
 import { registerRun } from './commands/run.js';
 import { registerStatus } from './commands/status.js';
 import { registerExport } from './commands/export.js';
+import { registerReport } from './commands/report.js';
 import { EXIT, reportError } from './fail.js';
 
 const program = new Command();
@@ -19,6 +20,7 @@ program
 registerRun(program);
 registerStatus(program);
 registerExport(program);
+registerReport(program);
 registerEval(program);
 registerTrain(program);
 registerBench(program);

@@ -1,10 +1,28 @@
-import { copyFileSync, existsSync, mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { RunState } from '../coevo/index.js';
+import { UserError } from '../core/index.js';
 import { syncDir, WriteError, type RunInputs } from '../store/index.js';
 import { buildCurriculum, SCHEMA_FILE, type Only, type Order } from './curriculum.js';
 import { assertCurriculum, curriculumSchemaPath } from './schema.js';
 import { summaryCsv } from './summary.js';
+
+/** What an export directory holds: an existing `out` with anything else in it is not replaced. */
+const EXPORT_ENTRIES = new Set(['curriculum.json', SCHEMA_FILE, 'summary.csv', 'walkers', 'body.json', 'family.json']);
+
+/**
+ * Refuses an `out` that exists and is not an earlier export: replacing it deletes what was
+ * there, and `--out` pointing at a run directory (or `.`) would otherwise wipe its checkpoints.
+ */
+function assertReplaceable(target: string): void {
+  const st = statSync(target, { throwIfNoEntry: false });
+  if (!st) return;
+  if (!st.isDirectory()) throw new UserError(`Export target ${target} is an existing file; expected a new directory or an earlier export: choose another --out`);
+  const foreign = readdirSync(target).filter((n) => !EXPORT_ENTRIES.has(n));
+  if (foreign.length > 0) {
+    throw new UserError(`Export target ${target} is not an earlier export (it holds ${foreign.slice(0, 3).join(', ')}${foreign.length > 3 ? ', ...' : ''}); choose another --out or remove it`);
+  }
+}
 
 export interface ExportResult {
   readonly dir: string;
@@ -16,12 +34,14 @@ export interface ExportResult {
  * Writes an export directory: curriculum.json (validated against the shipped schema before
  * anything is written), its schema, summary.csv, the walkers as safetensors, and copies of the
  * body plan and terrain family. Everything goes to a temporary sibling directory first, which
- * replaces `out` only when complete: a failed export leaves no half-written files.
+ * replaces `out` only when complete: a failed export leaves no half-written files. An existing
+ * `out` is replaced only when it is empty or an earlier export.
  */
 export function writeExport(inputs: RunInputs, state: RunState, out: string, order: Order, only: Only): ExportResult {
   const { curriculum, walkers } = buildCurriculum(inputs, state, order, only);
   assertCurriculum(curriculum, 'the export');
   const target = resolve(out);
+  assertReplaceable(target);
   mkdirSync(dirname(target), { recursive: true });
   const tmp = join(dirname(target), `.tmp-${basename(target)}-${process.pid}`);
   rmSync(tmp, { recursive: true, force: true });

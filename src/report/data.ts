@@ -1,0 +1,67 @@
+import { makeContext, type IterationMetrics, type RunState } from '../coevo/index.js';
+import { join } from 'node:path';
+import { emptyBatch, type Evaluator } from '../pool/index.js';
+import { readLines, METRICS, type RunInputs } from '../store/index.js';
+import { buildCourse, DESCRIPTOR_NAMES, difficulty, type Course } from '../terrain/index.js';
+
+/** Everything the report page shows, as plain data embedded in the page. */
+export interface ReportData {
+  readonly run: { name: string; seed: number; iteration: number; target: number; fingerprint: string };
+  readonly metrics: readonly IterationMetrics[];
+  readonly descriptorNames: readonly string[];
+  readonly segments: readonly { shape: string; size?: readonly number[]; radius?: number; foot: boolean }[];
+  readonly courses: readonly ReportCourse[];
+}
+
+export interface ReportCourse {
+  readonly id: number;
+  readonly parent: number | null;
+  readonly admittedAt: number;
+  readonly status: 'active' | 'archived';
+  readonly solvedAt: number | null;
+  readonly difficulty: number;
+  readonly descriptor: readonly number[];
+  readonly features: readonly string[];
+  readonly best: number;
+  readonly walkerId: number;
+  readonly holders: number;
+  readonly ground: readonly number[];
+  readonly obstacles: readonly (readonly number[])[];
+  readonly startX: number;
+  readonly finishX: number;
+  /** Replay of the course's walker (its solver, else its best): frames of [x, y, angle] per segment, rounded to mm / mrad. */
+  readonly replay: { readonly every: number; readonly progress: number; readonly frames: readonly (readonly number[])[] };
+}
+
+const round = (v: number): number => Math.round(v * 1000) / 1000;
+
+/** Replays every course's walker (one batch on the evaluator) and gathers the report's data. */
+export async function reportData(inputs: RunInputs, state: RunState, fp: string, evaluator: Evaluator, every = 5): Promise<ReportData> {
+  const ctx = makeContext(inputs.recipe, inputs.family, inputs.plan);
+  const batch = emptyBatch();
+  batch.plans.push(inputs.plan);
+  batch.shapes.push(ctx.shape);
+  batch.options.push({ ...ctx.rollout, traceEvery: every });
+  const courses: Course[] = state.courses.map((c) => buildCourse(c.genome, inputs.family));
+  batch.courses.push(...courses);
+  state.courses.forEach((c, i) => {
+    const w = c.solvedBy ?? c.best;
+    batch.tasks.push({ kind: 'rollout', course: i, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params: w.params } });
+  });
+  const results = await evaluator.evaluate(batch);
+  const active = new Set(state.pairs.map((p) => p.courseId));
+  return {
+    run: { name: inputs.recipe.name, seed: inputs.recipe.seed, iteration: state.iteration, target: inputs.recipe.budget.iterations, fingerprint: fp },
+    metrics: readLines<IterationMetrics>(join(inputs.dir, METRICS)).filter((m) => m.iteration <= state.iteration),
+    descriptorNames: DESCRIPTOR_NAMES,
+    segments: inputs.plan.segments.map((s) => ({ shape: s.shape, size: s.size, radius: s.radius, foot: s.foot })),
+    courses: state.courses.map((c, i) => ({
+      id: c.id, parent: c.parent, admittedAt: c.admittedAt, status: active.has(c.id) ? 'active' : 'archived', solvedAt: c.solvedAt,
+      difficulty: round(difficulty(c.genome, inputs.family)), descriptor: c.descriptor.map(round),
+      features: c.genome.features.map((f) => f.kind), best: c.best.progress, walkerId: (c.solvedBy ?? c.best).walkerId, holders: c.holders.length,
+      ground: courses[i].ground.map(round), obstacles: courses[i].obstacles.map((p) => p.map(round)),
+      startX: courses[i].startX, finishX: courses[i].finishX,
+      replay: { every, progress: results[i].progress, frames: (results[i].trace?.frames ?? []).map((f) => f.map(round)) },
+    })),
+  };
+}

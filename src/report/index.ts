@@ -1,0 +1,10 @@
+export { linearScale, niceTicks, esc } from './scale.js';
+export type { Scale } from './scale.js';
+export { lineChart } from './chart.js';
+export type { ChartSpec, Series } from './chart.js';
+export { layoutTree } from './tree.js';
+export type { TreeInput, PlacedNode } from './tree.js';
+export { strobeSvg, courseBounds, courseShapes, segmentShape } from './course-svg.js';
+export { reportData } from './data.js';
+export type { ReportData, ReportCourse } from './data.js';
+export { reportHtml, initialCourse } from './page.js';
