@@ -17,7 +17,7 @@ export interface RolloutBench {
   readonly buildMs: number;
   /** buildMs over the time of a 1,500-step rollout (target < 2%). */
   readonly buildShare: number;
-  /** Heap growth per 100 rollouts after garbage collection, KiB (target: about 0). */
+  /** Heap growth per 100 rollouts after garbage collection (least-squares slope after warm-up), KiB (target: about 0). */
   readonly heapGrowthPer100KiB: number;
   readonly courseSegments: number;
 }
@@ -67,16 +67,29 @@ export function benchRollouts(scene: BenchScene, rounds: number, steps: number):
   };
 }
 
-/** Heap after GC, sampled after each block of 100 short rollouts; growth per block after warm-up. */
+/**
+ * Heap after GC, sampled after each of 10 blocks of 100 short rollouts; the least-squares slope
+ * over blocks 3–10 (after warm-up), KiB per 100 rollouts. A single difference of two samples
+ * is dominated by the collector's own noise (±200 KiB here); the slope is not.
+ */
 function heapGrowth(scene: BenchScene): number {
   const gc = gcFunction();
   const opts = benchOptions('policy', 100);
   const samples: number[] = [];
-  for (let block = 0; block < 5; block++) {
+  for (let block = 0; block < 10; block++) {
     for (let i = 0; i < 100; i++) rollout(scene.course, scene.plan, scene.shape, scene.params, opts);
     gc();
     gc();
-    samples.push(process.memoryUsage().heapUsed);
+    samples.push(process.memoryUsage().heapUsed / 1024);
   }
-  return (samples[4] - samples[1]) / 3 / 1024;
+  const ys = samples.slice(2);
+  const mx = (ys.length - 1) / 2;
+  const my = ys.reduce((a, b) => a + b, 0) / ys.length;
+  let num = 0;
+  let den = 0;
+  ys.forEach((y, i) => {
+    num += (i - mx) * (y - my);
+    den += (i - mx) ** 2;
+  });
+  return num / den;
 }
