@@ -1,0 +1,152 @@
+/**
+ * What an exported curriculum says about its courses: the geometry is exactly what the exported
+ * genome and family build, the difficulty follows its documented definition, and --order and
+ * --only give the order and the subset they promise.
+ */
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { CourseRecord } from '../../src/coevo/index.js';
+import { writeExport } from '../../src/export/index.js';
+import { openRun } from '../../src/store/index.js';
+import { buildCourse, descriptor, loadFamily, validateGenome, type TerrainGenome } from '../../src/terrain/index.js';
+import { cleanup, exportRun, readJson, ROOT, smokeRun, solvedVariant, tempDir, type SolvedVariant } from './helpers.js';
+
+interface Entry {
+  id: number; difficulty: number; descriptor: number[]; solvedAt: number | null; genome: TerrainGenome;
+  geometry: { ground: number[][]; obstacles: number[][][]; friction: number; startX: number; finishX: number; spawnGroundY: number };
+}
+interface Cur { courses: Entry[]; order: string; only: string; family: { file: string } }
+
+const curriculumIn = (dir: string): Cur => readJson<Cur>(join(dir, 'curriculum.json'));
+const ids = (c: Cur): number[] => c.courses.map((e) => e.id);
+
+/** Numbers equal one by one (=== so the −0 that JSON cannot write still equals 0). */
+function expectSameNumbers(got: readonly number[], want: readonly number[], what: string): void {
+  expect(got.length, what).toBe(want.length);
+  got.forEach((v, i) => expect(v === want[i], `${what}[${i}]: ${v} vs ${want[i]}`).toBe(true));
+}
+
+/** Twice the signed area of a polygon by the shoelace formula: positive when counter-clockwise (y up). */
+function signedArea2(p: number[][]): number {
+  return p.reduce((s, [x, y], i) => { const [x1, y1] = p[(i + 1) % p.length]; return s + x * y1 - x1 * y; }, 0);
+}
+
+/** Every course's geometry against buildCourse(exported genome, exported family.json), plus the shape rules the schema states. */
+function checkGeometry(dir: string): number {
+  const cur = curriculumIn(dir);
+  const family = loadFamily(join(dir, cur.family.file));
+  let obstacles = 0;
+  for (const e of cur.courses) {
+    const built = buildCourse(e.genome, family);
+    const g = e.geometry;
+    expect(g.ground.every((p) => p.length === 2)).toBe(true);
+    expectSameNumbers(g.ground.flat(), built.ground, `course ${e.id} ground`);
+    expect(g.obstacles).toHaveLength(built.obstacles.length);
+    g.obstacles.forEach((o, k) => expectSameNumbers(o.flat(), built.obstacles[k], `course ${e.id} obstacle ${k}`));
+    expectSameNumbers([g.friction, g.startX, g.finishX, g.spawnGroundY], [built.friction, built.startX, built.finishX, built.spawnGroundY], `course ${e.id} scalars`);
+    // "x never decreases" along the ground; obstacles "convex polygons, counter-clockwise" (schema descriptions).
+    g.ground.slice(1).forEach(([x], i) => expect(x).toBeGreaterThanOrEqual(g.ground[i][0]));
+    for (const o of g.obstacles) {
+      expect(signedArea2(o)).toBeGreaterThan(0);
+      o.forEach(([x0, y0], i) => {
+        const [x1, y1] = o[(i + 1) % o.length];
+        const [x2, y2] = o[(i + 2) % o.length];
+        expect((x1 - x0) * (y2 - y1) - (y1 - y0) * (x2 - x1)).toBeGreaterThanOrEqual(0); // every turn left: convex
+      });
+      obstacles++;
+    }
+  }
+  return obstacles;
+}
+
+describe('an export of the smoke run', () => {
+  let run: string;
+  let tmp: string;
+  let byAdmission: Cur;
+  let byDifficulty: Cur;
+  let variant: SolvedVariant;
+
+  beforeAll(() => {
+    run = smokeRun();
+    tmp = tempDir('curriculum');
+    exportRun(run, join(tmp, 'admission'));
+    exportRun(run, join(tmp, 'difficulty'), '--order', 'difficulty');
+    byAdmission = curriculumIn(join(tmp, 'admission'));
+    byDifficulty = curriculumIn(join(tmp, 'difficulty'));
+    variant = solvedVariant(run, join(tmp, 'solved-run'));
+  }, 600_000);
+  afterAll(cleanup);
+
+  it('has geometry equal to buildCourse of each exported genome and the exported family', () => {
+    expect(byAdmission.courses.length).toBeGreaterThan(1);
+    expect(byAdmission.courses.some((e) => e.genome.features.length > 0)).toBe(true);
+    checkGeometry(join(tmp, 'admission'));
+  });
+
+  it('gives each course the documented difficulty: the mean of descriptor components over their family bounds', () => {
+    const f = readJson<any>(join(tmp, 'admission', 'family.json')); // the family as exported
+    const bounds = [
+      f.kinds.gap?.width.max ?? 0, Math.max(0, f.kinds.step?.height.max ?? 0), Math.max(0, -(f.kinds.step?.height.min ?? 0)),
+      f.kinds.block?.height.max ?? 0, Math.max(0, f.kinds.slope?.grade.max ?? 0), Math.max(0, -(f.kinds.slope?.grade.min ?? 0)),
+      f.roughness.max, f.maxFeatures,
+    ];
+    for (const e of byAdmission.courses) {
+      expect(e.descriptor).toEqual(descriptor(e.genome));
+      const mean = e.descriptor.reduce((s, v, i) => s + (bounds[i] > 0 ? v / bounds[i] : 0), 0) / bounds.length;
+      expect(e.difficulty).toBeCloseTo(mean, 12);
+    }
+    expect(byAdmission.courses.find((e) => e.genome.features.length === 0 && e.genome.roughness.amplitude === 0)?.difficulty).toBe(0);
+  });
+
+  it('--order admission lists courses as the run admitted them', () => {
+    const { state } = openRun(run);
+    expect(byAdmission.order).toBe('admission');
+    expect(ids(byAdmission)).toEqual(state.courses.map((c) => c.id));
+  });
+
+  it('--order difficulty lists the same courses by non-decreasing difficulty, ties by id', () => {
+    const d = byAdmission.courses.map((e) => e.difficulty);
+    expect(d.some((v, i) => i > 0 && v < d[i - 1]), 'admission order is already sorted: the check could not fail').toBe(true);
+    expect(byDifficulty.order).toBe('difficulty');
+    expect([...ids(byDifficulty)].sort((a, b) => a - b)).toEqual([...ids(byAdmission)].sort((a, b) => a - b));
+    byDifficulty.courses.slice(1).forEach((e, i) => {
+      const prev = byDifficulty.courses[i];
+      expect(e.difficulty > prev.difficulty || (e.difficulty === prev.difficulty && e.id > prev.id)).toBe(true);
+    });
+  });
+
+  it('--only solved keeps exactly the courses with solvedAt set, in either order', () => {
+    exportRun(variant.dir, join(tmp, 'v-solved'), '--only', 'solved');
+    exportRun(variant.dir, join(tmp, 'v-solved-d'), '--only', 'solved', '--order', 'difficulty');
+    const solved = curriculumIn(join(tmp, 'v-solved'));
+    expect(openRun(variant.dir).state.courses.length).toBeGreaterThan(variant.solved.length);
+    expect(solved.only).toBe('solved');
+    expect(ids(solved)).toEqual(variant.solved);
+    expect(solved.courses.every((e) => e.solvedAt !== null)).toBe(true);
+    const sd = curriculumIn(join(tmp, 'v-solved-d'));
+    expect([...ids(sd)].sort((a, b) => a - b)).toEqual(variant.solved);
+    sd.courses.slice(1).forEach((e, i) => expect(e.difficulty).toBeGreaterThanOrEqual(sd.courses[i].difficulty));
+    // The smoke run itself solves nothing: its solved-only export is empty, not an error.
+    expect(exportRun(run, join(tmp, 'none'), '--only', 'solved').courses).toBe(0);
+  });
+});
+
+describe('geometry of blocks, slopes and rough ground (mixed family)', () => {
+  let run: string;
+  beforeAll(() => { run = smokeRun(); }, 600_000);
+  afterAll(cleanup);
+
+  it('exports obstacles as counter-clockwise convex polygons equal to buildCourse', () => {
+    const { inputs, state } = openRun(run);
+    const family = loadFamily(join(ROOT, 'envs/terrain/mixed.json'));
+    const genomes: TerrainGenome[] = [
+      { roughness: { amplitude: 0.05, seed: 7 }, features: [{ kind: 'block', x: 6, width: 1, height: 0.3 }, { kind: 'slope', x: 10, length: 3, grade: 0.2 }, { kind: 'block', x: 16, width: 0.5, height: 0.1 }] },
+      { roughness: { amplitude: 0, seed: 0 }, features: [{ kind: 'gap', x: 6, width: 0.6 }, { kind: 'step', x: 10, height: -0.3 }, { kind: 'slope', x: 14, length: 2, grade: -0.4 }, { kind: 'block', x: 19, width: 1.2, height: 0.45 }] },
+    ];
+    for (const g of genomes) expect(validateGenome(g, family)).toEqual([]);
+    const courses = state.courses.slice(0, genomes.length).map((c, i): CourseRecord => ({ ...c, genome: genomes[i], descriptor: descriptor(genomes[i]) }));
+    const out = join(tempDir('mixed'), 'exp');
+    writeExport({ ...inputs, family }, { ...state, courses, pairs: [] }, out, 'admission', 'all');
+    expect(checkGeometry(out)).toBe(3);
+  });
+});
