@@ -69,8 +69,22 @@ export const CLIENT_SCRIPT = String.raw`
       if (c.ground[i] < x0 || c.ground[i] > x1) continue;
       y0 = Math.min(y0, c.ground[i + 1]); y1 = Math.max(y1, c.ground[i + 1]);
     }
+    // The ground at the window's edges too, as courseBounds does: a flat course has no vertex inside.
+    [x0, x1].forEach(function (x) {
+      var y = heightAt(c.ground, x);
+      if (isFinite(y)) { y0 = Math.min(y0, y); y1 = Math.max(y1, y); }
+    });
     c.obstacles.forEach(function (p) { for (var k = 1; k < p.length; k += 2) y1 = Math.max(y1, p[k]); });
     return { x0: x0, x1: x1, y0: y0 - 0.3, y1: y1 + 1.8 };
+  }
+  function heightAt(g, x) {
+    var best = -Infinity;
+    for (var i = 0; i + 3 < g.length; i += 2) {
+      if (x < g[i] || x > g[i + 2]) continue;
+      var y = g[i + 2] === g[i] ? Math.max(g[i + 1], g[i + 3]) : g[i + 1] + (g[i + 3] - g[i + 1]) * (x - g[i]) / (g[i + 2] - g[i]);
+      best = Math.max(best, y);
+    }
+    return best;
   }
   function drawCourse(c) {
     var svg = document.getElementById('course-svg');
@@ -104,7 +118,7 @@ export const CLIENT_SCRIPT = String.raw`
       p.setAttribute('transform', 'translate(' + f[3 * i] + ' ' + f[3 * i + 1] + ') rotate(' + (f[3 * i + 2] * 180 / Math.PI).toFixed(2) + ')');
     });
     scrub.value = String(frame);
-    document.getElementById('frame-label').textContent = 't = ' + (frame * current.replay.every * 0.02).toFixed(1) + ' s';
+    document.getElementById('frame-label').textContent = 't = ' + (frame * current.replay.every * data.run.timeStep).toFixed(1) + ' s';
     document.getElementById('course-svg').setAttribute('data-frame', String(frame));
   }
   function stop() { if (timer) { clearInterval(timer); timer = null; } playBtn.textContent = 'Play'; }

@@ -1,6 +1,6 @@
 import type { SegmentDef } from '../body/index.js';
-import type { Course } from '../terrain/index.js';
-import { n } from './scale.js';
+import { groundHeightAt, type Course } from '../terrain/index.js';
+import { esc, n } from './scale.js';
 
 /** World-space bounds of what is drawn of a course: from just before the start to just past the finish. */
 export function courseBounds(c: Course): { x0: number; x1: number; y0: number; y1: number } {
@@ -12,6 +12,12 @@ export function courseBounds(c: Course): { x0: number; x1: number; y0: number; y
     if (c.ground[i] < x0 || c.ground[i] > x1) continue;
     y0 = Math.min(y0, c.ground[i + 1]);
     y1 = Math.max(y1, c.ground[i + 1]);
+  }
+  // The ground at the window's edges too: a long straight segment (a flat course) may have
+  // no vertex inside the window at all, which left the bounds infinite.
+  for (const x of [x0, x1]) {
+    const y = groundHeightAt(c, x);
+    if (Number.isFinite(y)) [y0, y1] = [Math.min(y0, y), Math.max(y1, y)];
   }
   for (const p of c.obstacles) for (let i = 1; i < p.length; i += 2) y1 = Math.max(y1, p[i]);
   return { x0, x1, y0: y0 - 0.3, y1: y1 + 1.8 };
@@ -56,7 +62,7 @@ export function strobeSvg(c: Course, segments: readonly SegmentDef[], frames: re
   });
   return [
     `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${n(w)} ${n(h)}" width="${n(w)}" height="${n(h)}">`,
-    `<title>${title}</title>`,
+    `<title>${esc(title)}</title>`,
     `<style>${STROBE_STYLE}</style>`,
     `<rect width="100%" height="100%" fill="#f4efe4"/>`,
     `<g transform="scale(${scale} ${-scale}) translate(${n(-b.x0, 3)} ${n(-b.y1, 3)})">`,

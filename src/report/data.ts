@@ -6,7 +6,7 @@ import { buildCourse, DESCRIPTOR_NAMES, difficulty, type Course } from '../terra
 
 /** Everything the report page shows, as plain data embedded in the page. */
 export interface ReportData {
-  readonly run: { name: string; seed: number; iteration: number; target: number; fingerprint: string };
+  readonly run: { name: string; seed: number; iteration: number; target: number; fingerprint: string; timeStep: number };
   readonly metrics: readonly IterationMetrics[];
   readonly descriptorNames: readonly string[];
   readonly segments: readonly { shape: string; size?: readonly number[]; radius?: number; foot: boolean }[];
@@ -51,7 +51,7 @@ export async function reportData(inputs: RunInputs, state: RunState, fp: string,
   const results = await evaluator.evaluate(batch);
   const active = new Set(state.pairs.map((p) => p.courseId));
   return {
-    run: { name: inputs.recipe.name, seed: inputs.recipe.seed, iteration: state.iteration, target: inputs.recipe.budget.iterations, fingerprint: fp },
+    run: { name: inputs.recipe.name, seed: inputs.recipe.seed, iteration: state.iteration, target: inputs.recipe.budget.iterations, fingerprint: fp, timeStep: inputs.recipe.episode.timeStep },
     metrics: readLines<IterationMetrics>(join(inputs.dir, METRICS)).filter((m) => m.iteration <= state.iteration),
     descriptorNames: DESCRIPTOR_NAMES,
     segments: inputs.plan.segments.map((s) => ({ shape: s.shape, size: s.size, radius: s.radius, foot: s.foot })),

@@ -15,22 +15,30 @@ export function layoutTree(nodes: readonly TreeInput[], gap = 28, levelGap = 46)
   const roots: number[] = [];
   for (const v of [...nodes].sort((a, b) => a.id - b.id)) {
     if (v.parent === null || !ids.has(v.parent)) roots.push(v.id);
-    else children.set(v.parent, [...(children.get(v.parent) ?? []), v.id]);
+    else {
+      const list = children.get(v.parent);
+      if (list) list.push(v.id);
+      else children.set(v.parent, [v.id]);
+    }
   }
   const placed = new Map<number, { depth: number; slot: number }>();
   let next = 0;
-  const visit = (id: number, depth: number): number => {
-    const kids = children.get(id) ?? [];
-    if (kids.length === 0) {
-      placed.set(id, { depth, slot: next++ });
-      return placed.get(id)!.slot;
+  // Depth first with an explicit stack, not recursion: a lineage can be thousands of
+  // generations deep, more than the call stack holds. A node is placed once its children are.
+  for (const r of roots) {
+    const stack = [{ id: r, depth: 0, k: 0 }];
+    while (stack.length > 0) {
+      const top = stack[stack.length - 1];
+      const kids = children.get(top.id) ?? [];
+      if (top.k < kids.length) {
+        stack.push({ id: kids[top.k++], depth: top.depth + 1, k: 0 });
+        continue;
+      }
+      stack.pop();
+      const slot = kids.length === 0 ? next++ : (placed.get(kids[0])!.slot + placed.get(kids[kids.length - 1])!.slot) / 2;
+      placed.set(top.id, { depth: top.depth, slot });
     }
-    const slots = kids.map((k) => visit(k, depth + 1));
-    const slot = (slots[0] + slots[slots.length - 1]) / 2;
-    placed.set(id, { depth, slot });
-    return slot;
-  };
-  for (const r of roots) visit(r, 0);
+  }
   const parentOf = new Map(nodes.map((v) => [v.id, v.parent]));
   return nodes.map((v) => {
     const p = placed.get(v.id)!;
