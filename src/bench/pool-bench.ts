@@ -36,17 +36,37 @@ export async function timeBatch(batch: Batch, workers: number, warmups: number, 
 export interface PoolBench {
   /** Batch of 64 rollouts: time with 1 worker over time with 2 (target ≥ 1.8 on 2 cores). */
   readonly speedup2: number;
-  /** (1-worker time − in-thread time) / tasks, ms: the cost of shipping a task to a thread. */
+  /** Cost of shipping one task to a thread and back, ms: (1-worker − in-thread time) / tasks on 256 one-step rollouts. */
   readonly perTaskOverheadMs: number;
   readonly batchMs: { readonly inline: number; readonly workers1: number; readonly workers2: number };
 }
 
+/** Median times of the same batch on several evaluators, run in turns so drifts hit all alike. */
+async function interleaved(batch: Batch, workerCounts: readonly number[], warmups: number, rounds: number): Promise<number[]> {
+  const evs = workerCounts.map((w) => makeEvaluator(w));
+  try {
+    for (const ev of evs) for (let i = 0; i < warmups; i++) await ev.evaluate(batch);
+    const times: number[][] = evs.map(() => []);
+    for (let r = 0; r < rounds; r++) {
+      for (const [k, ev] of evs.entries()) {
+        const t0 = performance.now();
+        await ev.evaluate(batch);
+        times[k].push(performance.now() - t0);
+      }
+    }
+    return times.map(median);
+  } finally {
+    await Promise.all(evs.map((e) => e.close()));
+  }
+}
+
 export async function benchPool(scene: BenchScene, repeats: number, steps: number): Promise<PoolBench> {
   const batch = benchBatch(scene, 64, steps);
-  const inline = await timeBatch(batch, 0, 1, repeats);
-  const workers1 = await timeBatch(batch, 1, 2, repeats);
-  const workers2 = await timeBatch(batch, 2, 2, repeats);
-  return { speedup2: workers1 / workers2, perTaskOverheadMs: (workers1 - inline) / 64, batchMs: { inline, workers1, workers2 } };
+  const [inline, workers1, workers2] = await interleaved(batch, [0, 1, 2], 3, repeats);
+  // Overhead on rollouts of a single step, where shipping dominates and JIT differences between
+  // the main thread and a worker do not.
+  const [t0, t1] = await interleaved(benchBatch(scene, 256, 1), [0, 1], 3, repeats);
+  return { speedup2: workers1 / workers2, perTaskOverheadMs: (t1 - t0) / 256, batchMs: { inline, workers1, workers2 } };
 }
 
 export interface ScalingPoint { readonly workers: number; readonly ms: number; readonly speedup: number; readonly efficiency: number }

@@ -1,6 +1,8 @@
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { setFlagsFromString } from 'node:v8';
+import { runInNewContext } from 'node:vm';
 import { median } from '../core/index.js';
 import { initialState, makeContext, step, type RunState } from '../coevo/index.js';
 import type { Evaluator } from '../pool/index.js';
@@ -19,6 +21,7 @@ export interface CheckpointBench {
 export async function benchCheckpoint(runDir: string, evaluator: Evaluator, iterations: number): Promise<CheckpointBench> {
   const { inputs, state } = openRun(runDir);
   const scratch = mkdtempSync(join(tmpdir(), 'cairn-bench-'));
+  mkdirSync(join(scratch, 'checkpoints'));
   try {
     const writes: number[] = [];
     for (let i = 0; i < 7; i++) {
@@ -59,8 +62,11 @@ export async function benchSoak(recipePath: string, evaluator: Evaluator, iterat
     const ctx = makeContext(inputs.recipe, inputs.family, inputs.plan);
     let s = initialState(ctx);
     const rss: number[] = [];
+    const gc = exposeGc();
     for (let i = 0; i < iterations; i++) {
       s = (await step(s, ctx, evaluator)).state;
+      // Collect first, so the figure is what the process holds, not garbage awaiting collection.
+      gc();
       rss.push(process.memoryUsage().rss / 2 ** 20);
     }
     const warm = Math.floor(iterations / 4);
@@ -68,4 +74,9 @@ export async function benchSoak(recipePath: string, evaluator: Evaluator, iterat
   } finally {
     rmSync(scratch, { recursive: true, force: true });
   }
+}
+
+function exposeGc(): () => void {
+  setFlagsFromString('--expose-gc');
+  return runInNewContext('gc') as () => void;
 }
