@@ -3,13 +3,10 @@
  * walkers, and a fake evaluator whose progress values the test chooses per rollout, so the
  * loop's decision rules can be checked exactly without physics.
  */
-import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readdirSync, rmSync, statSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { loadBodyPlan } from '../../src/body/index.js';
-import { canonicalJson, sha256, stream } from '../../src/core/index.js';
+import { canonicalJson, stream } from '../../src/core/index.js';
 import { initEsState } from '../../src/evolve/index.js';
 import { makeContext, parseRecipe, type CourseRecord, type PairState, type Recipe, type RunContext, type RunState } from '../../src/coevo/index.js';
 import { proposeCandidates } from '../../src/coevo/admission.js';
@@ -23,7 +20,6 @@ export const ROOT = fileURLToPath(new URL('../../', import.meta.url));
 export const STARTER = join(ROOT, 'envs/terrain/starter.json');
 export const TRESTLE = join(ROOT, 'envs/bodies/trestle.json');
 export const CLI = join(ROOT, 'dist/cli/main.js');
-const WORKER_JS = join(ROOT, 'dist/pool/worker.js');
 
 /** Recipe fields to override, by section (each section's fields are merged into the base). */
 export type RecipeOverrides = Record<string, unknown>;
@@ -186,39 +182,4 @@ export function predictCandidates(ctx: RunContext, state: RunState): { genome: T
   return proposeCandidates(ctx, new Draft(state, state.iteration + 1)).map((c) => ({ genome: c.genome, duplicate: c.outcome === 'duplicate' }));
 }
 
-/** Newest modification time of the TypeScript sources, ms. */
-function newestSource(): number {
-  const dir = join(ROOT, 'src');
-  return Math.max(...readdirSync(dir, { recursive: true, encoding: 'utf8' }).filter((f) => f.endsWith('.ts')).map((f) => statSync(join(dir, f)).mtimeMs));
-}
-
-function stale(): boolean {
-  return !existsSync(WORKER_JS) || !existsSync(CLI) || statSync(WORKER_JS).mtimeMs < newestSource();
-}
-
-/**
- * Compiles src/ to dist/ when it is missing or older than the sources: worker threads and the
- * command line run the compiled code. tsc rewrites every output, so one file's age stands for
- * all. The lock directory (the same one test/pool uses) keeps parallel test files from running
- * two compilers over dist/ at once.
- */
-export function ensureBuilt(): void {
-  if (!stale()) return;
-  const lock = join(tmpdir(), `cairn-build-${sha256(ROOT).slice(0, 12)}.lock`);
-  for (;;) {
-    try { mkdirSync(lock); break; } catch {
-      // A lock left behind by a killed run must not block forever.
-      const since = statSync(lock, { throwIfNoEntry: false })?.mtimeMs ?? Date.now();
-      if (Date.now() - since > 180_000) rmSync(lock, { recursive: true, force: true });
-      Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, 200);
-    }
-  }
-  try {
-    if (!stale()) return;
-    const tsc = spawnSync(process.execPath, [join(ROOT, 'node_modules/typescript/bin/tsc'), '-p', '.'], { cwd: ROOT, encoding: 'utf8' });
-    // tsc emits even with type errors elsewhere; only a build still missing or stale is fatal.
-    if (stale()) throw new Error(`could not build dist/:\n${tsc.stdout}${tsc.stderr}`);
-  } finally {
-    rmSync(lock, { recursive: true, force: true });
-  }
-}
+export { ensureBuilt } from '../build.js';

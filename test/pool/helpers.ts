@@ -1,59 +1,15 @@
-import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readdirSync, rmSync, statSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { actionSize, loadBodyPlan, observationSize } from '../../src/body/index.js';
-import { sha256, stream } from '../../src/core/index.js';
+import { stream } from '../../src/core/index.js';
 import { initParams, type PolicyShape } from '../../src/policy/index.js';
 import { InlineEvaluator, emptyBatch, type Batch, type FaultTask, type PolicyRef, type Task } from '../../src/pool/index.js';
 import { defaultRolloutOptions, type RolloutResult } from '../../src/sim/index.js';
 import { buildCourse, loadFamily } from '../../src/terrain/index.js';
 
-export const ROOT = fileURLToPath(new URL('../../', import.meta.url));
-export const WORKER_JS = join(ROOT, 'dist/pool/worker.js');
+export { ROOT, WORKER_JS } from '../build.js';
+import { ROOT } from '../build.js';
 
-/** Newest modification time of any TypeScript source under src/, ms. */
-function newestSource(): number {
-  const dir = join(ROOT, 'src');
-  return Math.max(...readdirSync(dir, { recursive: true, encoding: 'utf8' })
-    .filter((f) => f.endsWith('.ts'))
-    .map((f) => statSync(join(dir, f)).mtimeMs));
-}
-
-function stale(): boolean {
-  return !existsSync(WORKER_JS) || statSync(WORKER_JS).mtimeMs < newestSource();
-}
-
-function sleep(ms: number): void {
-  Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
-}
-
-/**
- * Compiles src/ to dist/ when the worker script is missing or older than any source: the
- * ThreadEvaluator runs dist/pool/worker.js even under vitest. Test files run in parallel, so a
- * lock directory keeps two compilers from rewriting dist/ under a worker that is loading it.
- */
-export function ensureBuilt(): void {
-  if (!stale()) return;
-  const lock = join(tmpdir(), `cairn-build-${sha256(ROOT).slice(0, 12)}.lock`);
-  for (;;) {
-    try { mkdirSync(lock); break; } catch {
-      // A lock left by a killed run must not block forever.
-      const since = statSync(lock, { throwIfNoEntry: false })?.mtimeMs ?? Date.now();
-      if (Date.now() - since > 180_000) rmSync(lock, { recursive: true, force: true });
-      sleep(200);
-    }
-  }
-  try {
-    if (!stale()) return;
-    const tsc = spawnSync(process.execPath, [join(ROOT, 'node_modules/typescript/bin/tsc'), '-p', '.'], { cwd: ROOT, encoding: 'utf8' });
-    // tsc emits even with type errors; only a worker script still missing or stale is fatal here.
-    if (stale()) throw new Error(`could not build ${WORKER_JS}:\n${tsc.stdout}${tsc.stderr}`);
-  } finally {
-    rmSync(lock, { recursive: true, force: true });
-  }
-}
+export { ensureBuilt } from '../build.js';
 
 /**
  * Step budgets of the fault tests' rollouts. Short, because those tests give each task a time

@@ -3,11 +3,9 @@
  * derived from runs/smoke.json, temporary folders, and running `cairn` as a child process.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { sha256 } from '../../src/core/index.js';
 import { initialState, makeContext, type RunState, type StepOutcome } from '../../src/coevo/index.js';
 import { InlineEvaluator } from '../../src/pool/index.js';
 import { createRunDir, drive, writeCheckpoint, type RunInputs } from '../../src/store/index.js';
@@ -18,48 +16,10 @@ import { createRunDir, drive, writeCheckpoint, type RunInputs } from '../../src/
  */
 export const SLOW = 300_000;
 
-export const ROOT = fileURLToPath(new URL('../../', import.meta.url));
-export const CLI = join(ROOT, 'dist/cli/main.js');
+export { ROOT, CLI } from '../build.js';
+import { ROOT, CLI } from '../build.js';
 
-function newestSource(): number {
-  const dir = join(ROOT, 'src');
-  return Math.max(...readdirSync(dir, { recursive: true, encoding: 'utf8' })
-    .filter((f) => f.endsWith('.ts'))
-    .map((f) => statSync(join(dir, f)).mtimeMs));
-}
-
-function stale(): boolean {
-  return !existsSync(CLI) || statSync(CLI).mtimeMs < newestSource();
-}
-
-function sleepSync(ms: number): void {
-  Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
-}
-
-/**
- * Compiles src/ to dist/ when the command line is missing or older than any source. Test files
- * run in parallel; the lock directory (the same one test/pool uses) keeps two compilers from
- * rewriting dist/ at once.
- */
-export function ensureBuilt(): void {
-  if (!stale()) return;
-  const lock = join(tmpdir(), `cairn-build-${sha256(ROOT).slice(0, 12)}.lock`);
-  for (;;) {
-    try { mkdirSync(lock); break; } catch {
-      const since = statSync(lock, { throwIfNoEntry: false })?.mtimeMs ?? Date.now();
-      if (Date.now() - since > 180_000) rmSync(lock, { recursive: true, force: true });
-      sleepSync(200);
-    }
-  }
-  try {
-    if (!stale()) return;
-    const tsc = spawnSync(process.execPath, [join(ROOT, 'node_modules/typescript/bin/tsc'), '-p', '.'], { cwd: ROOT, encoding: 'utf8' });
-    // tsc emits even with type errors elsewhere; only a CLI still missing or stale is fatal.
-    if (stale()) throw new Error(`could not build ${CLI}:\n${tsc.stdout}${tsc.stderr}`);
-  } finally {
-    rmSync(lock, { recursive: true, force: true });
-  }
-}
+export { ensureBuilt } from '../build.js';
 
 /** A fresh folder under the system temp directory. */
 export function tempDir(label: string): string {
