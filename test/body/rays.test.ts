@@ -16,7 +16,8 @@ import { CourseRays } from '../../src/body/index.js';
 import { addCourse } from '../../src/sim/index.js';
 import { buildCourse, groundHeightAt, loadFamily, mutate, type Course, type TerrainGenome } from '../../src/terrain/index.js';
 
-const family = loadFamily(new URL('../../envs/terrain/mixed.json', import.meta.url).pathname);
+// A longer copy of the mixed family (40 m, up to 16 features) gives every lineage room for all kinds.
+const family = { ...loadFamily(new URL('../../envs/terrain/mixed.json', import.meta.url).pathname), length: 40, maxFeatures: 16 };
 
 /** A genome after `generations` mutations of the family's start, one labelled stream each. */
 function evolved(lineage: number, generations: number): TerrainGenome {
