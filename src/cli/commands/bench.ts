@@ -21,7 +21,7 @@ async function benchAction(o: BenchOptions): Promise<void> {
   const root = resolve(dirname(fileURLToPath(import.meta.url)), '../../..');
   const progress = new Progress(o.quiet === true || o.json === true, 0);
   const scene = benchScene(root);
-  const rounds = o.quick ? 3 : 9;
+  const rounds = o.quick ? 3 : 15;
   const steps = o.quick ? 300 : 1000;
   progress.update('single-thread rollouts...', true);
   const r = benchRollouts(scene, rounds, steps);
