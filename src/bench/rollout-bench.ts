@@ -28,7 +28,8 @@ function time(fn: () => void): number {
   return performance.now() - t0;
 }
 
-function gcFunction(): () => void {
+/** The collector, callable from this process (benchmarks measure memory after a collection). */
+export function gcFunction(): () => void {
   setFlagsFromString('--expose-gc');
   return runInNewContext('gc') as () => void;
 }

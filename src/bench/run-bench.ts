@@ -1,12 +1,11 @@
-import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { setFlagsFromString } from 'node:v8';
-import { runInNewContext } from 'node:vm';
 import { median } from '../core/index.js';
 import { initialState, makeContext, step, type RunState } from '../coevo/index.js';
 import type { Evaluator } from '../pool/index.js';
-import { openRun, writeCheckpoint, openRunDir, type RunInputs } from '../store/index.js';
+import { createRunDir, openRun, openRunDir, writeCheckpoint, type RunInputs } from '../store/index.js';
+import { gcFunction } from './rollout-bench.js';
 
 export interface CheckpointBench {
   readonly iteration: number;
@@ -34,7 +33,6 @@ export async function benchCheckpoint(runDir: string, evaluator: Evaluator, iter
     const t0 = performance.now();
     for (let i = 0; i < iterations; i++) s = (await step(s, ctx, evaluator)).state;
     const iterationMs = (performance.now() - t0) / iterations;
-    const { statSync, readdirSync } = await import('node:fs');
     const file = readdirSync(join(scratch, 'checkpoints'))[0];
     const bytes = statSync(join(scratch, 'checkpoints', file)).size;
     const writeMs = median(writes);
@@ -54,7 +52,6 @@ export interface SoakBench {
 
 /** Resident memory over a long run of a recipe in this process (the pool's threads included). */
 export async function benchSoak(recipePath: string, evaluator: Evaluator, iterations: number): Promise<SoakBench> {
-  const { createRunDir } = await import('../store/index.js');
   const scratch = mkdtempSync(join(tmpdir(), 'cairn-soak-'));
   try {
     const made: RunInputs = createRunDir(recipePath, join(scratch, 'run'), { iterations });
@@ -62,7 +59,7 @@ export async function benchSoak(recipePath: string, evaluator: Evaluator, iterat
     const ctx = makeContext(inputs.recipe, inputs.family, inputs.plan);
     let s = initialState(ctx);
     const rss: number[] = [];
-    const gc = exposeGc();
+    const gc = gcFunction();
     for (let i = 0; i < iterations; i++) {
       s = (await step(s, ctx, evaluator)).state;
       // Collect first, so the figure is what the process holds, not garbage awaiting collection.
@@ -76,7 +73,3 @@ export async function benchSoak(recipePath: string, evaluator: Evaluator, iterat
   }
 }
 
-function exposeGc(): () => void {
-  setFlagsFromString('--expose-gc');
-  return runInNewContext('gc') as () => void;
-}

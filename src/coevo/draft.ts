@@ -1,4 +1,4 @@
-import type { Pool } from './pool-types.js';
+import type { RolloutResult } from '../sim/index.js';
 import type { CourseRecord, PairState, RunEvent, RunState } from './state.js';
 
 /** The working copy of a state during one iteration; `finish` turns it back into a plain, new state. */
@@ -37,7 +37,7 @@ export class Draft {
   }
 
   /** Counts a batch's rollouts and physics steps. */
-  count(results: Pool): void {
+  count(results: readonly RolloutResult[]): void {
     this.counters.rollouts += results.length;
     for (const r of results) this.counters.steps += r.steps;
   }

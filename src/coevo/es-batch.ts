@@ -36,11 +36,6 @@ export function planEsStep(state: EsState, config: EsConfig, slots: EsSlots, tas
   return { seeds, asked, first };
 }
 
-/** Number of tasks `planEsStep` appends. */
-export function esStepTaskCount(config: EsConfig): number {
-  return 1 + 2 * config.pairs;
-}
-
 /** Result of one ES step: the mean's own rollout (before the update) and the new state. */
 export interface EsStepOutcome {
   readonly meanResult: RolloutResult;

@@ -1,7 +1,7 @@
 import type { BodyPlan } from '../body/index.js';
 import { stream } from '../core/index.js';
 import { initEsState, type EsConfig, type EsState } from '../evolve/index.js';
-import { emptyBatch, type Evaluator } from '../pool/index.js';
+import { sceneBatch, type Evaluator } from '../pool/index.js';
 import { initParams, type PolicyShape } from '../policy/index.js';
 import type { RolloutOptions } from '../sim/index.js';
 import type { Course } from '../terrain/index.js';
@@ -58,11 +58,7 @@ export async function trainWalker(
   let rollouts = 0;
   const log: TrainLogLine[] = [];
   for (let it = 0; it < settings.iterations; it++) {
-    const batch = emptyBatch();
-    batch.courses.push(course);
-    batch.plans.push(plan);
-    batch.shapes.push(shape);
-    batch.options.push(settings.rollout);
+    const batch = sceneBatch(course, plan, shape, settings.rollout);
     batch.bases.push([...state.mean]);
     const planned = planEsStep(state, settings.es, { course: 0, plan: 0, shape: 0, options: 0, base: 0 }, batch.tasks);
     const results = await evaluator.evaluate(batch);
@@ -81,12 +77,6 @@ export async function trainWalker(
     if (out.meanResult.progress >= settings.stopAtProgress) break;
     state = out.state;
   }
-  const batch = emptyBatch();
-  batch.courses.push(course);
-  batch.plans.push(plan);
-  batch.shapes.push(shape);
-  batch.options.push(settings.rollout);
-  batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params: state.mean } });
-  const [final] = await evaluator.evaluate(batch);
+  const [final] = await evaluator.evaluate(sceneBatch(course, plan, shape, settings.rollout, state.mean));
   return { state, log, finalProgress: final.progress, rollouts: rollouts + 1 };
 }

@@ -1,5 +1,5 @@
-export type { PolicyRef, RolloutTask, FaultTask, Task, BatchTables, Batch, PoolEvent, Evaluator } from './task.js';
-export { emptyBatch, addTo } from './task.js';
+export type { PolicyRef, RolloutTask, FaultTask, Task, BatchTables, Batch, MutableBatch, PoolEvent, Evaluator } from './task.js';
+export { emptyBatch, sceneBatch } from './task.js';
 export { InlineEvaluator } from './inline.js';
 export { ThreadEvaluator } from './threads.js';
 export type { ThreadOptions } from './threads.js';

@@ -66,15 +66,20 @@ export interface Evaluator {
   close(): Promise<void>;
 }
 
-/** An empty batch to fill: tables are appended to with `addTo`. */
-export function emptyBatch(): { courses: Course[]; plans: BodyPlan[]; shapes: PolicyShape[]; options: RolloutOptions[]; bases: number[][]; tasks: Task[] } {
+/** A batch under construction: every table and the task list can be appended to. */
+export interface MutableBatch { courses: Course[]; plans: BodyPlan[]; shapes: PolicyShape[]; options: RolloutOptions[]; bases: number[][]; tasks: Task[] }
+
+/** An empty batch to fill. */
+export function emptyBatch(): MutableBatch {
   return { courses: [], plans: [], shapes: [], options: [], bases: [], tasks: [] };
 }
 
-/** Appends `item` to `table` unless the very same object is already there; returns its index. */
-export function addTo<T>(table: T[], item: T): number {
-  const i = table.indexOf(item);
-  if (i >= 0) return i;
-  table.push(item);
-  return table.length - 1;
+/**
+ * A batch over one scene: the course, plan, shape and options at index 0 of their tables, and
+ * (when `params` are given) one rollout of those weights as task 0.
+ */
+export function sceneBatch(course: Course, plan: BodyPlan, shape: PolicyShape, options: RolloutOptions, params?: readonly number[]): MutableBatch {
+  const b: MutableBatch = { courses: [course], plans: [plan], shapes: [shape], options: [options], bases: [], tasks: [] };
+  if (params) b.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params } });
+  return b;
 }

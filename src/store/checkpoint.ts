@@ -10,14 +10,18 @@ import { TEMP_PREFIX, writeFileAtomic } from './atomic.js';
 export const CHECKPOINT_VERSION = 1;
 const NAME = /^ckpt-(\d{9})\.json$/;
 
-/** Versions of the programs that wrote a checkpoint (for the record; determinism needs the same ones). */
+let versions: { node: string; planck: string; cairn: string } | undefined;
+
+/** Versions of the programs that wrote a checkpoint (for the record; determinism needs the same ones). Read once. */
 export function writerVersions(): { node: string; planck: string; cairn: string } {
+  if (versions) return versions;
   const require = createRequire(import.meta.url);
   const version = (path: string): string => (JSON.parse(readFileSync(path, 'utf8')) as { version: string }).version;
   // planck-js does not export its package.json; it sits one folder above its main file.
   const planck = version(join(dirname(require.resolve('planck-js')), '..', 'package.json'));
   const cairn = version(fileURLToPath(new URL('../../package.json', import.meta.url)));
-  return { node: process.version, planck, cairn };
+  versions = { node: process.version, planck, cairn };
+  return versions;
 }
 
 interface CheckpointFile {

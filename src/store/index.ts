@@ -4,7 +4,7 @@ export type { WalkerFile } from './walker-file.js';
 export { CHECKPOINT_VERSION, writeCheckpoint, listCheckpoints, readCheckpoint, loadNewestCheckpoint, removeStaleTemps, checkpointPath, writerVersions } from './checkpoint.js';
 export type { SkippedCheckpoint } from './checkpoint.js';
 export { appendLines, readLines, truncateLogs, METRICS, EVENTS } from './logs.js';
-export { takeLock } from './lock.js';
+export { takeLock, processAlive } from './lock.js';
 export { createRunDir, openRunDir, updateBudget, recipeHashOf, RECIPE, FAMILY, BODY } from './run-dir.js';
 export type { RunInputs, RunOverrides } from './run-dir.js';
 export { drive, logPoolEvent } from './driver.js';

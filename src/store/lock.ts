@@ -4,7 +4,8 @@ import { UserError } from '../core/index.js';
 
 const LOCK = 'lock';
 
-function alive(pid: number): boolean {
+/** Whether a process with this pid is running (EPERM: it exists but belongs to someone else). */
+export function processAlive(pid: number): boolean {
   try {
     process.kill(pid, 0);
     return true;
@@ -29,7 +30,7 @@ export function takeLock(dir: string): { release: () => void; note: string | nul
       if ((e as NodeJS.ErrnoException).code !== 'EEXIST') throw e;
     }
     const pid = Number.parseInt(readFileSync(path, 'utf8'), 10);
-    if (Number.isInteger(pid) && pid !== process.pid && alive(pid)) {
+    if (Number.isInteger(pid) && pid !== process.pid && processAlive(pid)) {
       throw new UserError(`Run directory ${dir} is in use by process ${pid} (lock file ${path}); wait for it to finish or stop it first`);
     }
     note = `took over a stale lock left by process ${Number.isInteger(pid) ? pid : '?'}, which is no longer running`;

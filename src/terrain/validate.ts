@@ -1,5 +1,5 @@
 import { KINDS } from './kinds/index.js';
-import type { Feature, FieldRange, TerrainFamily, TerrainGenome } from './types.js';
+import type { Feature, FieldRange, TerrainFamily } from './types.js';
 
 const SEED_LIMIT = 2 ** 31;
 

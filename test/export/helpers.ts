@@ -9,7 +9,7 @@ import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, 
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { CourseRecord, RunState } from '../../src/coevo/index.js';
-import { openRun, writeCheckpoint } from '../../src/store/index.js';
+import { openRun, processAlive, writeCheckpoint } from '../../src/store/index.js';
 import { ensureBuilt, ROOT } from '../pool/helpers.js';
 
 export { ensureBuilt, ROOT };
@@ -64,15 +64,6 @@ function sleep(ms: number): void {
   Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
 }
 
-function alive(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch (e) {
-    return (e as NodeJS.ErrnoException).code === 'EPERM';
-  }
-}
-
 /**
  * The run directory of `cairn run runs/smoke.json --quiet --workers 2`, made once per vitest
  * invocation and shared by its test files. They run in child processes of one vitest process
@@ -99,7 +90,7 @@ export function smokeRun(): string {
     if (existsSync(dir)) return dir;
     for (const n of readdirSync(tmpdir())) {
       const pid = n.startsWith(prefix) ? Number(/^(\d+)/.exec(n.slice(prefix.length))?.[1]) : NaN;
-      if (pid > 0 && pid !== process.ppid && !alive(pid)) rmSync(join(tmpdir(), n), { recursive: true, force: true });
+      if (pid > 0 && pid !== process.ppid && !processAlive(pid)) rmSync(join(tmpdir(), n), { recursive: true, force: true });
     }
     const building = `${base}.tmp-${process.pid}`;
     rmSync(building, { recursive: true, force: true });

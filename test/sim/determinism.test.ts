@@ -9,8 +9,7 @@
  * or older than the sources it is rebuilt first.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, readdirSync, statSync } from 'node:fs';
-import { join, relative } from 'node:path';
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -19,28 +18,12 @@ import { canonicalJson, stream } from '../../src/core/index.js';
 import { initParams, type PolicyShape } from '../../src/policy/index.js';
 import { defaultRolloutOptions, rollout, type RolloutOptions } from '../../src/sim/index.js';
 import { buildCourse, loadFamily, mutate, type TerrainGenome } from '../../src/terrain/index.js';
+import { ensureBuilt } from '../build.js';
 
 const root = fileURLToPath(new URL('../../', import.meta.url));
 const fixture = new URL('../fixtures/rollout-task.mjs', import.meta.url);
 const familyPath = join(root, 'envs/terrain/mixed.json');
 const planPath = join(root, 'envs/bodies/trestle.json');
-/** The layers a rollout runs through; the fixture imports their compiled form. */
-const LAYERS = ['core', 'terrain', 'body', 'policy', 'sim'];
-
-function sourcesUnder(dir: string): string[] {
-  return readdirSync(dir, { withFileTypes: true }).flatMap((e) =>
-    e.isDirectory() ? sourcesUnder(join(dir, e.name)) : e.name.endsWith('.ts') ? [join(dir, e.name)] : [],
-  );
-}
-
-/** Sources whose compiled file in dist/ is missing or older than they are. */
-function staleSources(): string[] {
-  return LAYERS.flatMap((layer) => sourcesUnder(join(root, 'src', layer))).filter((src) => {
-    const out = join(root, 'dist', relative(join(root, 'src'), src)).replace(/\.ts$/, '.js');
-    return !existsSync(out) || statSync(out).mtimeMs < statSync(src).mtimeMs;
-  });
-}
-
 interface Task {
   familyPath: string;
   genome: TerrainGenome;
@@ -88,12 +71,8 @@ describe('rollout determinism', () => {
   let expected = '';
 
   beforeAll(() => {
-    if (staleSources().length > 0) {
-      // Type errors elsewhere in the project do not stop tsc from emitting; a stale dist does.
-      spawnSync(process.execPath, [join(root, 'node_modules/typescript/bin/tsc'), '-p', root], { encoding: 'utf8' });
-      const still = staleSources();
-      if (still.length > 0) throw new Error(`dist/ is out of date and tsc did not rebuild: ${still.join(', ')}`);
-    }
+    // The worker and the child process run dist/, rebuilt here when a source is newer.
+    ensureBuilt();
     expected = inProcess(task);
   });
 

@@ -1,9 +1,9 @@
 import type { Command } from 'commander';
 import { loadBodyPlan, observationSize, actionSize } from '../../body/index.js';
 import { stream, UserError } from '../../core/index.js';
-import { emptyBatch, makeEvaluator } from '../../pool/index.js';
+import { makeEvaluator, sceneBatch } from '../../pool/index.js';
 import { initParams, type PolicyShape } from '../../policy/index.js';
-import { defaultRolloutOptions } from '../../sim/index.js';
+import { assertPolicyFits, defaultRolloutOptions } from '../../sim/index.js';
 import { loadWalker, writeFileAtomic } from '../../store/index.js';
 import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
 import { hiddenSizes, intIn, oneOf } from '../options.js';
@@ -25,15 +25,8 @@ async function evalCurriculum(o: EvalOptions): Promise<void> {
   const plan = o.body === DEFAULT_BODY ? bodyOf(cur) : loadBodyPlan(o.body);
   const ref = walkerRefOf(cur, entry);
   const w = o.walker ? loadSafetensorsWalker(o.walker) : loadSafetensorsWalker(ref.path, ref.sha256);
-  if (w.shape.inputs !== observationSize(plan) || w.shape.outputs !== actionSize(plan)) {
-    throw new UserError(`Walker ${o.walker ?? ref.path}: network takes ${w.shape.inputs} inputs and gives ${w.shape.outputs} outputs; body plan "${plan.name}" needs ${observationSize(plan)} and ${actionSize(plan)}`);
-  }
-  const batch = emptyBatch();
-  batch.courses.push(courseOf(entry));
-  batch.plans.push(plan);
-  batch.shapes.push(w.shape);
-  batch.options.push({ ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 });
-  batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params: Array.from(w.params) } });
+  assertPolicyFits(w.shape, plan, o.walker ?? ref.path);
+  const batch = sceneBatch(courseOf(entry), plan, w.shape, { ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 }, Array.from(w.params));
   const evaluator = makeEvaluator(o.workers ?? 0);
   try {
     const [r] = await evaluator.evaluate(batch);
@@ -60,16 +53,9 @@ async function evalAction(o: EvalOptions): Promise<void> {
     throw new UserError(`Walker ${o.walker} was made for body plan "${walker.bodyName}", but --body ${o.body} is "${plan.name}"`);
   }
   const shape: PolicyShape = walker?.shape ?? { inputs: observationSize(plan), hidden: o.hidden, outputs: actionSize(plan), activation: o.activation };
-  if (shape.inputs !== observationSize(plan) || shape.outputs !== actionSize(plan)) {
-    throw new UserError(`Walker ${o.walker}: network takes ${shape.inputs} inputs and gives ${shape.outputs} outputs; body plan "${plan.name}" needs ${observationSize(plan)} and ${actionSize(plan)}`);
-  }
+  assertPolicyFits(shape, plan, String(o.walker));
   const params = walker ? walker.params : Array.from(initParams(shape, stream(o.seed, 'walker/init')));
-  const batch = emptyBatch();
-  batch.courses.push(course);
-  batch.plans.push(plan);
-  batch.shapes.push(shape);
-  batch.options.push({ ...defaultRolloutOptions(), maxSteps: o.steps, traceEvery: o.trace ? 5 : 0 });
-  batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params } });
+  const batch = sceneBatch(course, plan, shape, { ...defaultRolloutOptions(), maxSteps: o.steps, traceEvery: o.trace ? 5 : 0 }, params);
   const evaluator = makeEvaluator(o.workers ?? 0);
   try {
     const [r] = await evaluator.evaluate(batch);

@@ -4,7 +4,7 @@ import type { Command } from 'commander';
 import { fingerprint, makeContext } from '../../coevo/index.js';
 import { UserError } from '../../core/index.js';
 import { loadSafetensorsWalker } from '../../export/index.js';
-import { defaultWorkerCount, emptyBatch, makeEvaluator } from '../../pool/index.js';
+import { defaultWorkerCount, makeEvaluator, sceneBatch } from '../../pool/index.js';
 import { initialCourse, reportData, reportHtml, strobeSvg } from '../../report/index.js';
 import { loadWalker, openRun, writeFileAtomic } from '../../store/index.js';
 import { buildCourse } from '../../terrain/index.js';
@@ -42,12 +42,7 @@ async function renderAction(dir: string, o: RenderOptions): Promise<void> {
     shape = w.shape;
   }
   const course = buildCourse(rec.genome, inputs.family);
-  const batch = emptyBatch();
-  batch.courses.push(course);
-  batch.plans.push(inputs.plan);
-  batch.shapes.push(shape);
-  batch.options.push({ ...ctx.rollout, traceEvery: 5 });
-  batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params } });
+  const batch = sceneBatch(course, inputs.plan, shape, { ...ctx.rollout, traceEvery: 5 }, params);
   const evaluator = makeEvaluator(0);
   try {
     const [r] = await evaluator.evaluate(batch);
