@@ -1,5 +1,5 @@
 import { median } from '../core/index.js';
-import { emptyBatch, makeEvaluator, type Batch } from '../pool/index.js';
+import { emptyBatch, makeEvaluator, threads, type Batch } from '../pool/index.js';
 import { benchOptions, type BenchScene } from './fixture.js';
 
 /** A batch of `n` closed-loop rollouts of mirrored perturbations of the scene's walker. */
@@ -18,7 +18,7 @@ export function benchBatch(scene: BenchScene, n: number, steps: number): Batch {
 
 /** Median wall time of `repeats` warm batches on `workers` workers (0 = calling thread), ms. */
 export async function timeBatch(batch: Batch, workers: number, warmups: number, repeats: number): Promise<number> {
-  const ev = makeEvaluator(workers);
+  const ev = makeEvaluator(threads(workers));
   try {
     for (let i = 0; i < warmups; i++) await ev.evaluate(batch);
     const times: number[] = [];
@@ -43,7 +43,7 @@ export interface PoolBench {
 
 /** Median times of the same batch on several evaluators, run in turns so drifts hit all alike. */
 async function interleaved(batch: Batch, workerCounts: readonly number[], warmups: number, rounds: number): Promise<number[]> {
-  const evs = workerCounts.map((w) => makeEvaluator(w));
+  const evs = workerCounts.map((w) => makeEvaluator(threads(w)));
   try {
     for (const ev of evs) for (let i = 0; i < warmups; i++) await ev.evaluate(batch);
     const times: number[][] = evs.map(() => []);

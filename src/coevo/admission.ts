@@ -1,9 +1,10 @@
 import { canonicalJson, stream } from '../core/index.js';
 import type { Evaluator } from '../pool/index.js';
-import { buildCourse, descriptor, mutate, normalisedDescriptor, type TerrainGenome } from '../terrain/index.js';
-import { BatchBuilder, freshEs, type RunContext } from './context.js';
+import { buildCourse, descriptor, mutate, type TerrainGenome } from '../terrain/index.js';
+import { PhaseBatch } from './batch.js';
+import { freshEs, type RunContext } from './context.js';
 import type { Draft } from './draft.js';
-import { knnNovelty, performanceProfile } from './novelty.js';
+import { knnNovelty, noveltyMeasure } from './novelty.js';
 import type { CandidateOutcome, CourseRecord, PairState } from './state.js';
 
 /** One proposed terrain and what admission found about it. */
@@ -45,31 +46,28 @@ export async function admissionPhase(ctx: RunContext, draft: Draft, evaluator: E
   const cands = proposeCandidates(ctx, draft);
   if (cands.length === 0) return;
   const live = cands.filter((c) => c.outcome === null);
-  const profile = ctx.recipe.novelty.measure === 'profile';
-  const b = new BatchBuilder(ctx, draft);
+  const measure = noveltyMeasure(ctx);
+  const b = new PhaseBatch(ctx, draft);
   const walkers = draft.pairs.map((p) => ({ pair: p, params: p.es.mean }));
   const candTasks = live.map((c) => {
-    const ci = b.extraCourse(buildCourse(c.genome, ctx.family));
-    return walkers.map((w) => b.rollout(ci, w.params));
+    const course = b.candidate(buildCourse(c.genome, ctx.family));
+    return walkers.map((w) => b.rollout(course, w.params));
   });
-  const courseTasks = profile ? draft.courses.map((rec) => walkers.map((w) => b.rollout(b.course(rec.id), w.params))) : [];
-  const results = await evaluator.evaluate(b.batch());
-  draft.count(results);
+  const readRefs = measure.references(b, draft.courses, walkers.map((w) => w.params));
+  const results = await b.run(evaluator, draft);
   const { low, high } = ctx.recipe.admission;
   live.forEach((c, i) => {
-    const progress = candTasks[i].map((t) => results[t].progress);
+    const progress = candTasks[i].map((t) => results.progress(t));
     let best = 0;
     for (let w = 1; w < progress.length; w++) if (progress[w] > progress[best]) best = w;
     c.bestProgress = progress[best];
     c.walkerId = walkers[best].pair.walkerId;
     c.params = walkers[best].params;
-    c.point = profile ? performanceProfile(progress, low, high) : normalisedDescriptor(c.genome, ctx.family);
+    c.point = measure.point(c.genome, progress);
     if (c.bestProgress < low) c.outcome = 'too-hard';
     else if (c.bestProgress > high) c.outcome = 'too-easy';
   });
-  const refs = profile
-    ? courseTasks.map((ts) => performanceProfile(ts.map((t) => results[t].progress), low, high))
-    : draft.courses.map((rec) => normalisedDescriptor(rec.genome, ctx.family));
+  const refs = readRefs(results);
   admitByNovelty(ctx, draft, live.filter((c) => c.outcome === null), refs);
   draft.counters.candidates += cands.length;
   for (const c of cands) {

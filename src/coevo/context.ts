@@ -1,13 +1,11 @@
 import { actionSize, observationSize, type BodyPlan } from '../body/index.js';
-import { stream } from '../core/index.js';
+import { hashValue, stream } from '../core/index.js';
 import { initEsState, type EsConfig, type EsState } from '../evolve/index.js';
-import type { Task } from '../pool/index.js';
 import { initParams, type PolicyShape } from '../policy/index.js';
 import { defaultRolloutOptions, type RolloutOptions } from '../sim/index.js';
 import { buildCourse, descriptor, type Course, type TerrainFamily } from '../terrain/index.js';
 import type { Recipe } from './recipe.js';
 import type { CourseRecord, RunState } from './state.js';
-import type { Batch } from '../pool/index.js';
 
 /** Everything fixed for a run: the recipe and what it names, resolved. Not part of the state. */
 export interface RunContext {
@@ -19,10 +17,19 @@ export interface RunContext {
   readonly rollout: RolloutOptions;
   /** Stricter solver for solve confirmations: twice the velocity and position iterations. */
   readonly strictRollout: RolloutOptions;
+  /** Hash of everything that shapes the run's trajectory: recipe (less its budget and file names), family and body plan. */
+  readonly recipeHash: string;
   /** Built courses by id (derived from genomes, cached). */
   readonly courseCache: Map<number, Course>;
 }
 
+/** The hash a run's fingerprint and checkpoints are tied to. The budget may change on resume; file names are where copies live. */
+export function recipeHashOf(recipe: Recipe, family: TerrainFamily, plan: BodyPlan): string {
+  const { budget: _budget, terrain: _t, body: _b, ...rest } = recipe;
+  return hashValue({ recipe: rest, family, plan });
+}
+
+/** Derives everything fixed for a run from its recipe, family and body plan: the one place this is done. */
 export function makeContext(recipe: Recipe, family: TerrainFamily, plan: BodyPlan): RunContext {
   const e = recipe.episode;
   const physics = { gravity: e.gravity, timeStep: e.timeStep, velocityIterations: e.velocityIterations, positionIterations: e.positionIterations };
@@ -34,6 +41,7 @@ export function makeContext(recipe: Recipe, family: TerrainFamily, plan: BodyPla
     es: recipe.es,
     rollout,
     strictRollout: { ...rollout, physics: strict },
+    recipeHash: recipeHashOf(recipe, family, plan),
     courseCache: new Map(),
   };
 }
@@ -74,55 +82,4 @@ export function initialState(ctx: RunContext): RunState {
     pairs: [{ courseId: 0, walkerId: 0, es: freshEs(ctx, params, 'course/0/walker/0/es-noise'), progress: 0 }],
     counters: { candidates: 0, takeovers: 0, rollouts: 0, steps: 0 },
   };
-}
-
-/** Collects a batch: courses and base vectors are added once and referred to by index. */
-export class BatchBuilder {
-  readonly courses: Course[] = [];
-  readonly bases: number[][] = [];
-  readonly tasks: Task[] = [];
-  private readonly courseIndex = new Map<number, number>();
-
-  /** `courses` is read when a course is first added, so records admitted earlier in the iteration are found. */
-  constructor(private readonly ctx: RunContext, private readonly source: { readonly courses: readonly CourseRecord[] }) {}
-
-  /** Index of course `id` in this batch. */
-  course(id: number): number {
-    let i = this.courseIndex.get(id);
-    if (i === undefined) {
-      i = this.courses.push(courseOf(this.ctx, this.source.courses, id)) - 1;
-      this.courseIndex.set(id, i);
-    }
-    return i;
-  }
-
-  /** Index of an unbuilt course (a candidate) in this batch. */
-  extraCourse(c: Course): number {
-    return this.courses.push(c) - 1;
-  }
-
-  base(params: readonly number[]): number {
-    return this.bases.push([...params]) - 1;
-  }
-
-  /** Adds a rollout of fixed weights; `options` 0 is the run's episode, 1 the strict one. Returns the task index. */
-  rollout(course: number, params: readonly number[], options: 0 | 1 = 0, push = 0): number {
-    const opt = push === 0 ? options : this.pushOption(options, push);
-    return this.tasks.push({ kind: 'rollout', course, plan: 0, shape: 0, options: opt, policy: { kind: 'params', params } }) - 1;
-  }
-
-  private readonly extraOptions: RolloutOptions[] = [];
-
-  /** Index of the run's (0) or strict (1) episode options with a push on the torso at the start. */
-  pushOption(base: 0 | 1, push: number): number {
-    const o = { ...(base === 0 ? this.ctx.rollout : this.ctx.strictRollout), push };
-    return 2 + this.extraOptions.push(o) - 1;
-  }
-
-  batch(): Batch {
-    return {
-      courses: this.courses, plans: [this.ctx.plan], shapes: [this.ctx.shape],
-      options: [this.ctx.rollout, this.ctx.strictRollout, ...this.extraOptions], bases: this.bases, tasks: this.tasks,
-    };
-  }
 }

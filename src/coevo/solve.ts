@@ -1,6 +1,7 @@
 import { stream } from '../core/index.js';
 import type { Evaluator } from '../pool/index.js';
-import { BatchBuilder, type RunContext } from './context.js';
+import { PhaseBatch } from './batch.js';
+import type { RunContext } from './context.js';
 import type { Draft } from './draft.js';
 
 /**
@@ -13,19 +14,17 @@ export async function solvePhase(ctx: RunContext, draft: Draft, evaluator: Evalu
   const { threshold, checks, push } = ctx.recipe.solve;
   const due = draft.pairs.filter((p) => p.progress >= threshold && draft.course(p.courseId).solvedAt === null);
   if (due.length === 0) return;
-  const b = new BatchBuilder(ctx, draft);
+  const b = new PhaseBatch(ctx, draft);
   const plans = due.map((p) => {
     const params = draft.evaluated.get(p.courseId) ?? p.es.mean;
     const best = { progress: p.progress, walkerId: p.walkerId, iteration: draft.iteration, params: [...params] };
     const s = stream(ctx.recipe.seed, `iteration/${draft.iteration}/solve/${p.courseId}`);
-    const tasks: number[] = [];
-    for (let i = 0; i < checks; i++) tasks.push(b.rollout(b.course(p.courseId), best.params, 1, i === 0 ? 0 : s.uniform(-push, push)));
+    const tasks = Array.from({ length: checks }, (_, i) => b.rollout(b.course(p.courseId), best.params, b.episode('strict', i === 0 ? 0 : s.uniform(-push, push))));
     return { pair: p, best, tasks };
   });
-  const results = checks > 0 ? await evaluator.evaluate(b.batch()) : [];
-  draft.count(results);
+  const results = await b.run(evaluator, draft);
   for (const { pair, best, tasks } of plans) {
-    const progress = tasks.map((t) => results[t].progress);
+    const progress = tasks.map((t) => results.progress(t));
     const ok = progress.every((x) => x >= threshold);
     const base = { iteration: draft.iteration, courseId: pair.courseId, walkerId: best.walkerId, progress: best.progress, checks: progress };
     draft.events.push({ type: ok ? 'solved' : 'unconfirmed', ...base });

@@ -1,7 +1,8 @@
 import type { Evaluator } from '../pool/index.js';
-import { BatchBuilder, freshEs, type RunContext } from './context.js';
+import { PhaseBatch, type TaskHandle } from './batch.js';
+import { freshEs, type RunContext } from './context.js';
 import type { Draft } from './draft.js';
-import { finishEsStep, planEsStep, type PlannedEsStep } from './es-batch.js';
+import { finishEsStep, type PlannedEsStep } from './es-batch.js';
 import type { PairState } from './state.js';
 
 interface Offer {
@@ -19,17 +20,16 @@ interface Target {
 
 /** Batch 1: each pair's incumbent and every other active walker, as they are, on the pair's course. */
 async function zeroShot(ctx: RunContext, draft: Draft, evaluator: Evaluator): Promise<Target[]> {
-  const b = new BatchBuilder(ctx, draft);
+  const b = new PhaseBatch(ctx, draft);
   const plan = draft.pairs.map((p) => {
     const c = b.course(p.courseId);
     return { p, inc: b.rollout(c, p.es.mean), others: draft.pairs.filter((q) => q !== p).map((q) => ({ q, t: b.rollout(c, q.es.mean) })) };
   });
-  const r = await evaluator.evaluate(b.batch());
-  draft.count(r);
+  const r = await b.run(evaluator, draft);
   return plan.map(({ p, inc, others }) => ({
     pair: p,
-    incumbent: r[inc].progress,
-    offers: others.map(({ q, t }) => ({ from: q, how: 'zero-shot' as const, params: q.es.mean, progress: r[t].progress })),
+    incumbent: r.progress(inc),
+    offers: others.map(({ q, t }) => ({ from: q, how: 'zero-shot' as const, params: q.es.mean, progress: r.progress(t) })),
   }));
 }
 
@@ -37,27 +37,25 @@ async function zeroShot(ctx: RunContext, draft: Draft, evaluator: Evaluator): Pr
 async function fineTune(ctx: RunContext, draft: Draft, evaluator: Evaluator, targets: Target[]): Promise<void> {
   const top = ctx.recipe.transfer.fineTuneTop;
   if (top === 0) return;
-  const b = new BatchBuilder(ctx, draft);
+  const b = new PhaseBatch(ctx, draft);
   const steps: { target: Target; from: PairState; planned: PlannedEsStep }[] = [];
   for (const target of targets) {
     const ranked = [...target.offers].sort((x, y) => y.progress - x.progress).slice(0, top);
     for (const o of ranked) {
       const es = freshEs(ctx, o.params, `iteration/${draft.iteration}/transfer/${target.pair.courseId}/${o.from.walkerId}`);
-      const slots = { course: b.course(target.pair.courseId), plan: 0, shape: 0, options: 0, base: b.base(o.params) };
-      steps.push({ target, from: o.from, planned: planEsStep(es, ctx.es, slots, b.tasks) });
+      steps.push({ target, from: o.from, planned: b.esStep(es, b.course(target.pair.courseId)) });
     }
   }
   if (steps.length === 0) return;
-  const r = await evaluator.evaluate(b.batch());
-  draft.count(r);
-  const b2 = new BatchBuilder(ctx, draft);
+  const r = await b.run(evaluator, draft);
+  const b2 = new PhaseBatch(ctx, draft);
   const tuned = steps.map((s) => {
-    const params = finishEsStep(s.planned, ctx.es, r).state.mean;
-    return { ...s, params, task: b2.rollout(b2.course(s.target.pair.courseId), params) };
+    const params = finishEsStep(s.planned, ctx.es, r.all).state.mean;
+    const task: TaskHandle = b2.rollout(b2.course(s.target.pair.courseId), params);
+    return { ...s, params, task };
   });
-  const r2 = await evaluator.evaluate(b2.batch());
-  draft.count(r2);
-  for (const t of tuned) t.target.offers.push({ from: t.from, how: 'fine-tuned', params: t.params, progress: r2[t.task].progress });
+  const r2 = await b2.run(evaluator, draft);
+  for (const t of tuned) t.target.offers.push({ from: t.from, how: 'fine-tuned', params: t.params, progress: r2.progress(t.task) });
 }
 
 /**

@@ -1,8 +1,7 @@
 import { observationNames, type BodyPlan } from '../body/index.js';
 import { sha256 } from '../core/index.js';
-import { fingerprint, makeContext, type BestOnCourse, type CourseRecord, type RunState } from '../coevo/index.js';
+import { fingerprint, type BestOnCourse, type CourseRecord, type RunContext, type RunState } from '../coevo/index.js';
 import type { PolicyShape } from '../policy/index.js';
-import type { RunInputs } from '../store/index.js';
 import { buildCourse, DESCRIPTOR_NAMES, difficulty, type Course } from '../terrain/index.js';
 import { encodeSafetensors } from './safetensors.js';
 import { paramsToTensors } from './walker-tensors.js';
@@ -64,10 +63,9 @@ function walkerMetadata(plan: BodyPlan, shape: PolicyShape): Record<string, stri
 }
 
 /** The curriculum object and the walker files it references, from a run's state. */
-export function buildCurriculum(inputs: RunInputs, state: RunState, order: Order, only: Only): { curriculum: Record<string, unknown>; walkers: WalkerBlob[] } {
-  const ctx = makeContext(inputs.recipe, inputs.family, inputs.plan);
-  const files = new WalkerFiles(ctx.shape, walkerMetadata(inputs.plan, ctx.shape));
-  const diff = (c: CourseRecord): number => difficulty(c.genome, inputs.family);
+export function buildCurriculum(ctx: RunContext, state: RunState, order: Order, only: Only): { curriculum: Record<string, unknown>; walkers: WalkerBlob[] } {
+  const files = new WalkerFiles(ctx.shape, walkerMetadata(ctx.plan, ctx.shape));
+  const diff = (c: CourseRecord): number => difficulty(c.genome, ctx.family);
   let courses = state.courses.filter((c) => only === 'all' || c.solvedAt !== null);
   if (order === 'difficulty') courses = [...courses].sort((a, b) => diff(a) - diff(b) || a.id - b.id);
   const active = new Set(state.pairs.map((p) => p.courseId));
@@ -80,28 +78,28 @@ export function buildCurriculum(inputs: RunInputs, state: RunState, order: Order
     genome: c.genome,
     descriptor: c.descriptor,
     difficulty: diff(c),
-    geometry: geometry(buildCourse(c.genome, inputs.family)),
-    admission: { bestProgress: c.admission.bestProgress, walkerId: c.admission.walkerId, novelty: c.admission.novelty, band: [inputs.recipe.admission.low, inputs.recipe.admission.high] },
+    geometry: geometry(buildCourse(c.genome, ctx.family)),
+    admission: { bestProgress: c.admission.bestProgress, walkerId: c.admission.walkerId, novelty: c.admission.novelty, band: [ctx.recipe.admission.low, ctx.recipe.admission.high] },
     best: { progress: c.best.progress, walker: files.add(c.best) },
     solvedAt: c.solvedAt,
     solvedBy: c.solvedBy ? { progress: c.solvedBy.progress, walker: files.add(c.solvedBy) } : null,
     holders: c.holders,
   }));
-  const e = inputs.recipe.episode;
+  const e = ctx.recipe.episode;
   const curriculum = {
     $schema: `./${SCHEMA_FILE}`,
     format: CURRICULUM_FORMAT,
     version: CURRICULUM_VERSION,
-    run: { name: inputs.recipe.name, seed: inputs.recipe.seed, iteration: state.iteration, fingerprint: fingerprint(state, inputs.recipeHash), recipeHash: inputs.recipeHash },
+    run: { name: ctx.recipe.name, seed: ctx.recipe.seed, iteration: state.iteration, fingerprint: fingerprint(state, ctx.recipeHash), recipeHash: ctx.recipeHash },
     order,
     only,
     difficultyMeasure: 'mean of the descriptor components, each divided by its family bound (0 = flat ground, 1 = every component at its bound)',
     descriptorNames: DESCRIPTOR_NAMES,
     physics: { gravity: e.gravity, timeStep: e.timeStep, velocityIterations: e.velocityIterations, positionIterations: e.positionIterations },
     episode: { maxSteps: e.maxSteps, stallSeconds: e.stallSeconds, stallDistance: e.stallDistance, fallPenalty: e.fallPenalty },
-    solveThreshold: inputs.recipe.solve.threshold,
-    body: { file: 'body.json', name: inputs.plan.name, actionMode: inputs.plan.action, observation: observationNames(inputs.plan), actions: inputs.plan.joints.map((j) => j.name) },
-    family: { file: 'family.json', name: inputs.family.name },
+    solveThreshold: ctx.recipe.solve.threshold,
+    body: { file: 'body.json', name: ctx.plan.name, actionMode: ctx.plan.action, observation: observationNames(ctx.plan), actions: ctx.plan.joints.map((j) => j.name) },
+    family: { file: 'family.json', name: ctx.family.name },
     policy: ctx.shape,
     courses: entries,
   };

@@ -1,8 +1,8 @@
 import { copyFileSync, existsSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
-import type { RunState } from '../coevo/index.js';
+import type { RunContext, RunState } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
-import { syncDir, WriteError, type RunInputs } from '../store/index.js';
+import { syncDir, WriteError } from '../store/index.js';
 import { buildCurriculum, SCHEMA_FILE, type Only, type Order } from './curriculum.js';
 import { assertCurriculum, curriculumSchemaPath } from './schema.js';
 import { summaryCsv } from './summary.js';
@@ -37,8 +37,8 @@ export interface ExportResult {
  * replaces `out` only when complete: a failed export leaves no half-written files. An existing
  * `out` is replaced only when it is empty or an earlier export.
  */
-export function writeExport(inputs: RunInputs, state: RunState, out: string, order: Order, only: Only): ExportResult {
-  const { curriculum, walkers } = buildCurriculum(inputs, state, order, only);
+export function writeExport(ctx: RunContext, state: RunState, out: string, order: Order, only: Only): ExportResult {
+  const { curriculum, walkers } = buildCurriculum(ctx, state, order, only);
   assertCurriculum(curriculum, 'the export');
   const target = resolve(out);
   assertReplaceable(target);
@@ -50,8 +50,8 @@ export function writeExport(inputs: RunInputs, state: RunState, out: string, ord
     writeFileSync(join(tmp, 'curriculum.json'), `${JSON.stringify(curriculum, null, 1)}\n`);
     copyFileSync(curriculumSchemaPath(), join(tmp, SCHEMA_FILE));
     writeFileSync(join(tmp, 'summary.csv'), summaryCsv(curriculum.courses as Parameters<typeof summaryCsv>[0], curriculum.descriptorNames as string[]));
-    writeFileSync(join(tmp, 'body.json'), `${JSON.stringify(inputs.plan, null, 2)}\n`);
-    writeFileSync(join(tmp, 'family.json'), `${JSON.stringify(inputs.family, null, 2)}\n`);
+    writeFileSync(join(tmp, 'body.json'), `${JSON.stringify(ctx.plan, null, 2)}\n`);
+    writeFileSync(join(tmp, 'family.json'), `${JSON.stringify(ctx.family, null, 2)}\n`);
     for (const w of walkers) writeFileSync(join(tmp, w.file), w.bytes);
     syncDir(join(tmp, 'walkers'));
     syncDir(tmp);

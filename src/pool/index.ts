@@ -1,6 +1,13 @@
-export type { PolicyRef, RolloutTask, FaultTask, Task, BatchTables, Batch, MutableBatch, PoolEvent, Evaluator } from './task.js';
+export type { PolicyRef, RolloutTask, Task, BatchTables, Batch, MutableBatch, PoolEvent, Evaluator } from './task.js';
 export { emptyBatch, sceneBatch } from './task.js';
-export { InlineEvaluator } from './inline.js';
-export { ThreadEvaluator } from './threads.js';
+export type { Transport, JobItem, BatchRef, RunningJob } from './transport.js';
+export { ScheduledEvaluator } from './scheduler.js';
+export type { SchedulerOptions } from './scheduler.js';
+export { InlineEvaluator, InlineTransport } from './inline.js';
+export { ThreadEvaluator, ThreadTransport } from './threads.js';
 export type { ThreadOptions } from './threads.js';
-export { makeEvaluator, defaultWorkerCount } from './make.js';
+export { runTask } from './run-task.js';
+export { serveTasks } from './worker-loop.js';
+export type { TaskRunner } from './worker-loop.js';
+export { makeEvaluator, defaultWorkerCount, threads, describeBackend } from './make.js';
+export type { Backend } from './make.js';

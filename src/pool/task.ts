@@ -22,17 +22,7 @@ export interface RolloutTask {
   readonly policy: PolicyRef;
 }
 
-/**
- * A deliberately faulty task, for tests of the pool's fault handling: on attempts before
- * `untilAttempt` it throws, exits its thread or loops forever; afterwards it returns a fixed result.
- */
-export interface FaultTask {
-  readonly kind: 'fault';
-  readonly mode: 'throw' | 'exit' | 'hang';
-  readonly untilAttempt: number;
-}
-
-export type Task = RolloutTask | FaultTask;
+export type Task = RolloutTask;
 
 /** Inputs shared by many tasks of a batch, sent to each worker once per batch. */
 export interface BatchTables {
@@ -49,9 +39,9 @@ export interface Batch extends BatchTables {
   readonly tasks: readonly Task[];
 }
 
-/** What a pool reports about itself as it works (a worker replaced, a task retried). */
+/** What a pool reports about itself as it works: a job was lost (its worker died, threw or overran) and its tasks re-queued. */
 export interface PoolEvent {
-  readonly kind: 'worker-replaced';
+  readonly kind: 'retried';
   readonly reason: string;
   /** Task indices (in the batch) that were re-queued. */
   readonly tasks: readonly number[];
@@ -59,10 +49,8 @@ export interface PoolEvent {
 
 /** Runs batches of rollouts. Results come back in task order, whoever computed them. */
 export interface Evaluator {
-  /** Number of worker threads (0 for the calling thread). */
-  readonly workers: number;
   evaluate(batch: Batch): Promise<RolloutResult[]>;
-  /** Stops all threads; the evaluator cannot be used afterwards. */
+  /** Stops all threads and connections; the evaluator cannot be used afterwards. */
   close(): Promise<void>;
 }
 

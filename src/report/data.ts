@@ -1,7 +1,5 @@
-import { makeContext, type IterationMetrics, type RunState } from '../coevo/index.js';
-import { join } from 'node:path';
+import { fingerprint, type IterationMetrics, type RunContext, type RunState } from '../coevo/index.js';
 import { emptyBatch, type Evaluator } from '../pool/index.js';
-import { readLines, METRICS, type RunInputs } from '../store/index.js';
 import { buildCourse, DESCRIPTOR_NAMES, difficulty, type Course } from '../terrain/index.js';
 
 /** Everything the report page shows, as plain data embedded in the page. */
@@ -35,14 +33,13 @@ export interface ReportCourse {
 
 const round = (v: number): number => Math.round(v * 1000) / 1000;
 
-/** Replays every course's walker (one batch on the evaluator) and gathers the report's data. */
-export async function reportData(inputs: RunInputs, state: RunState, fp: string, evaluator: Evaluator, every = 5): Promise<ReportData> {
-  const ctx = makeContext(inputs.recipe, inputs.family, inputs.plan);
+/** Replays every course's walker (one batch on the evaluator) and gathers the report's data; `metrics` are the run's log lines. */
+export async function reportData(ctx: RunContext, state: RunState, metrics: readonly IterationMetrics[], evaluator: Evaluator, every = 5): Promise<ReportData> {
   const batch = emptyBatch();
-  batch.plans.push(inputs.plan);
+  batch.plans.push(ctx.plan);
   batch.shapes.push(ctx.shape);
   batch.options.push({ ...ctx.rollout, traceEvery: every });
-  const courses: Course[] = state.courses.map((c) => buildCourse(c.genome, inputs.family));
+  const courses: Course[] = state.courses.map((c) => buildCourse(c.genome, ctx.family));
   batch.courses.push(...courses);
   state.courses.forEach((c, i) => {
     const w = c.solvedBy ?? c.best;
@@ -51,13 +48,13 @@ export async function reportData(inputs: RunInputs, state: RunState, fp: string,
   const results = await evaluator.evaluate(batch);
   const active = new Set(state.pairs.map((p) => p.courseId));
   return {
-    run: { name: inputs.recipe.name, seed: inputs.recipe.seed, iteration: state.iteration, target: inputs.recipe.budget.iterations, fingerprint: fp, timeStep: inputs.recipe.episode.timeStep },
-    metrics: readLines<IterationMetrics>(join(inputs.dir, METRICS)).filter((m) => m.iteration <= state.iteration),
+    run: { name: ctx.recipe.name, seed: ctx.recipe.seed, iteration: state.iteration, target: ctx.recipe.budget.iterations, fingerprint: fingerprint(state, ctx.recipeHash), timeStep: ctx.recipe.episode.timeStep },
+    metrics: metrics.filter((m) => m.iteration <= state.iteration),
     descriptorNames: DESCRIPTOR_NAMES,
-    segments: inputs.plan.segments.map((s) => ({ shape: s.shape, size: s.size, radius: s.radius, foot: s.foot })),
+    segments: ctx.plan.segments.map((s) => ({ shape: s.shape, size: s.size, radius: s.radius, foot: s.foot })),
     courses: state.courses.map((c, i) => ({
       id: c.id, parent: c.parent, admittedAt: c.admittedAt, status: active.has(c.id) ? 'active' : 'archived', solvedAt: c.solvedAt,
-      difficulty: round(difficulty(c.genome, inputs.family)), descriptor: c.descriptor.map(round),
+      difficulty: round(difficulty(c.genome, ctx.family)), descriptor: c.descriptor.map(round),
       features: c.genome.features.map((f) => f.kind), best: c.best.progress, walkerId: (c.solvedBy ?? c.best).walkerId, holders: c.holders.length,
       ground: courses[i].ground.map(round), obstacles: courses[i].obstacles.map((p) => p.map(round)),
       startX: courses[i].startX, finishX: courses[i].finishX,

@@ -4,6 +4,13 @@ import { WriteError, writeFileAtomic } from './atomic.js';
 
 export const METRICS = 'metrics.jsonl';
 export const EVENTS = 'events.jsonl';
+/** Wall-clock facts about the machinery (a lost job re-run), kept apart from the deterministic logs. */
+export const FAULTS = 'faults.jsonl';
+
+/** Appends one pool event to faults.jsonl with the time it happened. */
+export function logPoolEvent(dir: string, e: object): void {
+  appendLines(join(dir, FAULTS), [{ time: new Date().toISOString(), ...e }]);
+}
 
 /** Appends records as JSON lines in one write, so a crash leaves at most one partial last line. */
 export function appendLines(path: string, records: readonly unknown[]): void {

@@ -1,8 +1,8 @@
 import { existsSync, mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { loadBodyPlan, type BodyPlan } from '../body/index.js';
-import { hashValue, readJsonFile, UserError } from '../core/index.js';
-import { loadRecipe, parseRecipe, type Recipe } from '../coevo/index.js';
+import { readJsonFile, UserError } from '../core/index.js';
+import { loadRecipe, parseRecipe, recipeHashOf, type Recipe } from '../coevo/index.js';
 import { loadFamily, type TerrainFamily } from '../terrain/index.js';
 import { writeFileAtomic } from './atomic.js';
 
@@ -18,11 +18,6 @@ export interface RunInputs {
   readonly plan: BodyPlan;
   /** Hash of everything that shapes the run's trajectory: recipe (less its budget), family and body plan. */
   readonly recipeHash: string;
-}
-
-export function recipeHashOf(recipe: Recipe, family: TerrainFamily, plan: BodyPlan): string {
-  const { budget: _budget, terrain: _t, body: _b, ...rest } = recipe;
-  return hashValue({ recipe: rest, family, plan });
 }
 
 /** Overrides from the command line, applied before freezing. */

@@ -1,40 +1,42 @@
-import { KINDS, Slot } from './kinds/index.js';
+import { KINDS, KIND_NAMES } from './kinds/index.js';
 import type { TerrainFamily, TerrainGenome } from './types.js';
 
+/** Each kind's components in registration order, then roughness and count. */
+const KIND_COMPONENTS = KIND_NAMES.flatMap((kind) => KINDS[kind].descriptor.map((c) => ({ kind, c })));
+const ROUGHNESS = KIND_COMPONENTS.length;
+const COUNT = ROUGHNESS + 1;
+
 /**
- * Names of the descriptor's components, in order. All are ≥ 0:
- * 0 gapWidth   widest gap, m                 (bound: family gap.width.max, or 0)
- * 1 stepUp     tallest upward step, m        (bound: max(0, step.height.max))
- * 2 stepDown   deepest downward step, m      (bound: max(0, −step.height.min))
- * 3 blockHeight tallest block, m             (bound: block.height.max)
- * 4 uphill     steepest uphill grade, rise/run (bound: max(0, slope.grade.max))
- * 5 downhill   steepest downhill grade, fall/run (bound: max(0, −slope.grade.min))
- * 6 roughness  roughness amplitude, m        (bound: roughness.max)
- * 7 count      number of features            (bound: maxFeatures)
+ * Names of the descriptor's components, in order. All are ≥ 0 and bounded by the family:
+ * first each feature kind's own components (see its file: gapWidth, stepUp, stepDown,
+ * blockHeight, uphill, downhill), each the largest value over the genome's features of that
+ * kind; then roughness (amplitude, m; bound roughness.max) and count (number of features;
+ * bound maxFeatures).
  */
-export const DESCRIPTOR_NAMES = ['gapWidth', 'stepUp', 'stepDown', 'blockHeight', 'uphill', 'downhill', 'roughness', 'count'] as const;
+export const DESCRIPTOR_NAMES: readonly string[] = [...KIND_COMPONENTS.map(({ c }) => c.name), 'roughness', 'count'];
 
 export const DESCRIPTOR_LENGTH = DESCRIPTOR_NAMES.length;
 
 /** The fixed-length difficulty vector of a genome (see DESCRIPTOR_NAMES for components and units). */
 export function descriptor(genome: TerrainGenome): number[] {
   const d = new Array<number>(DESCRIPTOR_LENGTH).fill(0);
-  for (const f of genome.features) KINDS[f.kind].describe(f, d);
-  d[Slot.Roughness] = genome.roughness.amplitude;
-  d[Slot.Count] = genome.features.length;
+  for (const f of genome.features) {
+    KIND_COMPONENTS.forEach(({ kind, c }, i) => {
+      if (kind === f.kind) d[i] = Math.max(d[i], c.of(f));
+    });
+  }
+  d[ROUGHNESS] = genome.roughness.amplitude;
+  d[COUNT] = genome.features.length;
   return d;
 }
 
-/** Upper bound of each descriptor component over every valid genome of `family` (lower bounds are 0). */
+/** Upper bound of each descriptor component over every valid genome of `family` (lower bounds are 0; a kind the family does not allow bounds its components at 0). */
 export function descriptorBounds(family: TerrainFamily): number[] {
-  const k = family.kinds;
   return [
-    k.gap?.width.max ?? 0,
-    Math.max(0, k.step?.height.max ?? 0),
-    Math.max(0, -(k.step?.height.min ?? 0)),
-    k.block?.height.max ?? 0,
-    Math.max(0, k.slope?.grade.max ?? 0),
-    Math.max(0, -(k.slope?.grade.min ?? 0)),
+    ...KIND_COMPONENTS.map(({ kind, c }) => {
+      const r = family.kinds[kind];
+      return r ? c.bound(r) : 0;
+    }),
     family.roughness.max,
     family.maxFeatures,
   ];

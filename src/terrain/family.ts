@@ -62,14 +62,12 @@ function familyProblems(f: TerrainFamily, where: string): string[] {
     }
   }
   for (const [path, r] of ranges) if (r.min > r.max) at(path, `min (${r.min}) is above max (${r.max})`);
-  for (const kind of ['gap', 'block'] as const) {
-    const w = f.kinds[kind]?.width;
-    if (w && w.min <= 0) at(`kinds.${kind}.width.min`, `expected > 0, found ${w.min}`);
+  for (const kind of Object.keys(f.kinds) as (keyof typeof KINDS)[]) {
+    for (const field of KINDS[kind].positive) {
+      const r = f.kinds[kind]?.[field];
+      if (r && r.min <= 0) at(`kinds.${kind}.${field}.min`, `expected > 0, found ${r.min}`);
+    }
   }
-  const slopeLen = f.kinds.slope?.length;
-  if (slopeLen && slopeLen.min <= 0) at('kinds.slope.length.min', `expected > 0, found ${slopeLen.min}`);
-  const blockH = f.kinds.block?.height;
-  if (blockH && blockH.min <= 0) at('kinds.block.height.min', `expected > 0, found ${blockH.min}`);
   return p;
 }
 

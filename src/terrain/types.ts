@@ -1,5 +1,6 @@
-/** Names of the feature kinds cairn knows. Each has one file under `src/terrain/kinds/`. */
-export type FeatureKind = 'gap' | 'step' | 'block' | 'slope';
+import type { FeatureKind } from './kinds/index.js';
+
+export type { FeatureKind };
 
 /**
  * One element of a terrain genome. `x` is where it starts, in metres from the course origin;

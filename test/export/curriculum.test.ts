@@ -8,6 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { CourseRecord } from '../../src/coevo/index.js';
 import { writeExport } from '../../src/export/index.js';
 import { openRun } from '../../src/store/index.js';
+import { Run } from '../../src/run/index.js';
 import { buildCourse, descriptor, loadFamily, validateGenome, type TerrainGenome } from '../../src/terrain/index.js';
 import { cleanup, exportRun, readJson, ROOT, smokeRun, solvedVariant, tempDir, type SolvedVariant } from './helpers.js';
 
@@ -146,7 +147,7 @@ describe('geometry of blocks, slopes and rough ground (mixed family)', () => {
     for (const g of genomes) expect(validateGenome(g, family)).toEqual([]);
     const courses = state.courses.slice(0, genomes.length).map((c, i): CourseRecord => ({ ...c, genome: genomes[i], descriptor: descriptor(genomes[i]) }));
     const out = join(tempDir('mixed'), 'exp');
-    writeExport({ ...inputs, family }, { ...state, courses, pairs: [] }, out, 'admission', 'all');
+    writeExport(Run.of({ ...inputs, family }).ctx, { ...state, courses, pairs: [] }, out, 'admission', 'all');
     expect(checkGeometry(out)).toBe(3);
   });
 });

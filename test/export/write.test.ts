@@ -8,6 +8,7 @@ import { basename, dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeExport } from '../../src/export/index.js';
 import { openRun } from '../../src/store/index.js';
+import { Run } from '../../src/run/index.js';
 import { cairn, cleanup, exportRun, readJson, smokeRun, tempDir } from './helpers.js';
 
 /** Every file under `dir`, relative, sorted. */
@@ -62,7 +63,7 @@ describe('writing an export', () => {
     const blocker = join(box, `.tmp-${basename(out)}-${process.pid}-old`);
     mkdirSync(join(blocker, 'in-the-way'), { recursive: true });
     const { inputs, state } = openRun(run);
-    expect(() => writeExport(inputs, state, out, 'difficulty', 'all')).toThrow(/could not write/);
+    expect(() => writeExport(Run.of(inputs).ctx, state, out, 'difficulty', 'all')).toThrow(/could not write/);
     expect(readFileSync(join(out, 'curriculum.json'), 'utf8')).toBe(before);
     rmSync(blocker, { recursive: true });
     expect(readdirSync(box)).toEqual(['exp']);

@@ -1,6 +1,6 @@
 import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { canonicalJson } from '../../src/core/index.js';
-import { emptyBatch, InlineEvaluator, makeEvaluator, ThreadEvaluator, type Batch } from '../../src/pool/index.js';
+import { emptyBatch, InlineEvaluator, makeEvaluator, threads, ThreadEvaluator, type Batch } from '../../src/pool/index.js';
 import { ensureBuilt, inline, rolloutBatch } from './helpers.js';
 
 const small: Batch = rolloutBatch(3);
@@ -52,10 +52,10 @@ describe('worker counts', () => {
   });
 
   it('makes an in-thread evaluator for 0 workers and threads otherwise', async () => {
-    expect(makeEvaluator(0)).toBeInstanceOf(InlineEvaluator);
-    const ev = makeEvaluator(2);
+    expect(makeEvaluator(threads(0))).toBeInstanceOf(InlineEvaluator);
+    const ev = makeEvaluator(threads(2));
     evaluator = ev as ThreadEvaluator;
     expect(ev).toBeInstanceOf(ThreadEvaluator);
-    expect(ev.workers).toBe(2);
+    expect(evaluator.workers).toBe(2);
   });
 });

@@ -1,8 +1,8 @@
 import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { canonicalJson } from '../../src/core/index.js';
-import { ThreadEvaluator, type Batch, type FaultTask, type PoolEvent } from '../../src/pool/index.js';
+import type { Batch, PoolEvent, ThreadEvaluator } from '../../src/pool/index.js';
 import type { RolloutResult } from '../../src/sim/index.js';
-import { ensureBuilt, faultResult, inline, rolloutBatch, SHORT, TASK_LIMIT_MS, withTask } from './helpers.js';
+import { ensureBuilt, faultResult, faultTask, faultThreads, inline, rolloutBatch, SHORT, TASK_LIMIT_MS, withTask, type FaultTask } from './helpers.js';
 
 // Eight tasks on two workers make one task a job, so only the fault task's own job fails.
 const FAULT_AT = 3;
@@ -16,7 +16,7 @@ let events: PoolEvent[];
 /** Two threads, with a task limit short enough for the hang test and far above a rollout's time. */
 function twoWorkers(): ThreadEvaluator {
   events = [];
-  evaluator = new ThreadEvaluator(2, { taskTimeoutMs: TASK_LIMIT_MS, onEvent: (e) => events.push(e) });
+  evaluator = faultThreads(2, { taskTimeoutMs: TASK_LIMIT_MS, onEvent: (e) => events.push(e) });
   return evaluator;
 }
 
@@ -32,15 +32,15 @@ afterEach(async () => {
 });
 
 describe.each<FaultTask['mode']>(['throw', 'exit', 'hang'])('a worker whose task does "%s" once', (mode) => {
-  const fault: FaultTask = { kind: 'fault', mode, untilAttempt: 1 };
+  const fault = faultTask(mode, 1);
 
   it('is replaced, the task re-run, and the batch completes with the inline results', async () => {
     const results = await twoWorkers().evaluate(withTask(normal, FAULT_AT, fault));
     expect(results).toHaveLength(normal.tasks.length + 1);
-    expect(canonicalJson(results[FAULT_AT])).toBe(canonicalJson(await faultResult(mode)));
+    expect(canonicalJson(results[FAULT_AT])).toBe(canonicalJson(faultResult()));
     const others = results.filter((_, i) => i !== FAULT_AT);
     others.forEach((r, i) => expect(canonicalJson(r), `normal task ${i}`).toBe(canonicalJson(expected[i])));
-    const replaced = events.filter((e) => e.kind === 'worker-replaced' && e.tasks.includes(FAULT_AT));
+    const replaced = events.filter((e) => e.kind === 'retried' && e.tasks.includes(FAULT_AT));
     expect(replaced.length, JSON.stringify(events)).toBeGreaterThanOrEqual(1);
     // The next batch runs on the replacement thread and the surviving one.
     expect(canonicalJson(await evaluator!.evaluate(after))).toBe(canonicalJson(expectedAfter));
@@ -50,7 +50,7 @@ describe.each<FaultTask['mode']>(['throw', 'exit', 'hang'])('a worker whose task
 describe('the checks above', () => {
   it('can tell every task apart: rollout results all differ, and differ from the fault result', async () => {
     // Were two results equal, a mix-up of tasks or a fault result in a rollout's place would pass.
-    const all = [...expected, await faultResult('throw')].map((r) => canonicalJson(r));
+    const all = [...expected, faultResult()].map((r) => canonicalJson(r));
     expect(new Set(all).size).toBe(all.length);
   });
 });

@@ -2,12 +2,40 @@ import { join } from 'node:path';
 import { actionSize, loadBodyPlan, observationSize } from '../../src/body/index.js';
 import { stream } from '../../src/core/index.js';
 import { initParams, type PolicyShape } from '../../src/policy/index.js';
-import { InlineEvaluator, emptyBatch, type Batch, type FaultTask, type PolicyRef, type Task } from '../../src/pool/index.js';
+import { InlineEvaluator, ThreadEvaluator, emptyBatch, type Batch, type PolicyRef, type Task, type ThreadOptions } from '../../src/pool/index.js';
 import { defaultRolloutOptions, type RolloutResult } from '../../src/sim/index.js';
 import { buildCourse, loadFamily } from '../../src/terrain/index.js';
 
 export { ROOT, WORKER_JS } from '../build.js';
 import { ROOT } from '../build.js';
+
+/** Worker script of the fault tests: cairn's worker plus a task kind that fails on purpose. */
+export const FAULT_WORKER = join(ROOT, 'test/fixtures/fault-worker.mjs');
+
+/**
+ * A deliberately faulty task, understood only by {@link FAULT_WORKER}: on attempts before
+ * `untilAttempt` it throws, exits its thread or loops forever; afterwards it returns `result`.
+ */
+export interface FaultTask {
+  readonly kind: 'fault';
+  readonly mode: 'throw' | 'exit' | 'hang';
+  readonly untilAttempt: number;
+  readonly result: RolloutResult;
+}
+
+/** What a fault task returns once it stops failing: unlike any rollout's result. */
+const FAULT_RESULT: RolloutResult = { progress: 0.5, fitness: 0.5, steps: 1, fell: false, end: 'budget' };
+
+/** A fault task, typed as a task so it can travel in a batch to {@link FAULT_WORKER}. */
+export function faultTask(mode: FaultTask['mode'], untilAttempt: number): Task {
+  const t: FaultTask = { kind: 'fault', mode, untilAttempt, result: FAULT_RESULT };
+  return t as unknown as Task;
+}
+
+/** Threads running {@link FAULT_WORKER}. */
+export function faultThreads(workers: number, options: ThreadOptions = {}): ThreadEvaluator {
+  return new ThreadEvaluator(workers, { ...options, workerFile: FAULT_WORKER });
+}
 
 export { ensureBuilt } from '../build.js';
 
@@ -73,15 +101,16 @@ export function inline(batch: Batch): Promise<RolloutResult[]> {
 /**
  * Inline results of `batch` once its fault tasks stop failing: each fault task gives the fixed
  * result it returns after its last failing attempt. (Run as they are, they would throw, exit
- * or hang this thread: the inline evaluator has no retries.)
+ * or hang this thread: the inline evaluator has no such task kind.)
  */
-export function inlineRecovered(batch: Batch): Promise<RolloutResult[]> {
-  const tasks = batch.tasks.map((t): Task => (t.kind === 'fault' ? { ...t, untilAttempt: 0 } : t));
-  return inline({ ...batch, tasks });
+export async function inlineRecovered(batch: Batch): Promise<RolloutResult[]> {
+  const isFault = (t: Task): boolean => (t as unknown as FaultTask).kind === 'fault';
+  const rollouts = await inline({ ...batch, tasks: batch.tasks.filter((t) => !isFault(t)) });
+  let k = 0;
+  return batch.tasks.map((t) => (isFault(t) ? FAULT_RESULT : rollouts[k++]));
 }
 
-/** The fixed result a fault task returns once it stops failing, taken from the inline evaluator. */
-export async function faultResult(mode: FaultTask['mode']): Promise<RolloutResult> {
-  const [r] = await inlineRecovered({ ...emptyBatch(), tasks: [{ kind: 'fault', mode, untilAttempt: 1 }] });
-  return r;
+/** The fixed result a fault task returns once it stops failing. */
+export function faultResult(): RolloutResult {
+  return FAULT_RESULT;
 }

@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { canonicalJson } from '../../src/core/index.js';
 import { emptyBatch, type Batch } from '../../src/pool/index.js';
-import { ensureBuilt, inlineRecovered, ROOT, rolloutBatch, withTask } from './helpers.js';
+import { ensureBuilt, faultTask, inlineRecovered, ROOT, rolloutBatch, withTask } from './helpers.js';
 
 const FIXTURE = join(ROOT, 'test/fixtures/pool-exit.mjs');
 
@@ -28,7 +28,7 @@ const cases: [string, Batch, 'close' | 'return'][] = [
   ['evaluating a batch and calling close()', six, 'close'],
   ['an empty batch, so its threads never ran a job', emptyBatch(), 'return'],
   ['one task on two threads, so one thread stayed idle', rolloutBatch(1), 'return'],
-  ['a thread terminated for hanging and replaced', withTask(six, 2, { kind: 'fault', mode: 'hang', untilAttempt: 1 }), 'return'],
+  ['a thread terminated for hanging and replaced', withTask(six, 2, faultTask('hang', 1)), 'return'],
 ];
 
 describe('a program that used a ThreadEvaluator', () => {

@@ -8,7 +8,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { initialState, makeContext, type RunState, type StepOutcome } from '../../src/coevo/index.js';
 import { InlineEvaluator } from '../../src/pool/index.js';
-import { createRunDir, drive, writeCheckpoint, type RunInputs } from '../../src/store/index.js';
+import { createRunDir, writeCheckpoint, type RunInputs } from '../../src/store/index.js';
+import { loop, Run } from '../../src/run/index.js';
 
 /**
  * Time limit of a test that runs the command line several times, ms. Far above the tens of
@@ -151,7 +152,7 @@ export function makeRun(root: string, changes: Sections = {}, name = 'run'): { i
 /** Drives a run in this process (no threads) to `target`, returning every outcome on the way. */
 export async function advance(inputs: RunInputs, start: RunState, target: number): Promise<{ state: RunState; outcomes: StepOutcome[] }> {
   const outcomes: StepOutcome[] = [];
-  const { state } = await drive(inputs, start, {
+  const { state } = await loop(Run.of(inputs), start, {
     evaluator: new InlineEvaluator(), targetIterations: target, minutes: 0, stopRequested: () => null, onIteration: (o) => outcomes.push(o),
   });
   return { state, outcomes };

@@ -11,9 +11,10 @@ import { canonicalJson } from '../../src/core/index.js';
 import { fingerprint, type RunState } from '../../src/coevo/index.js';
 import { InlineEvaluator } from '../../src/pool/index.js';
 import {
-  checkpointPath, drive, EVENTS, listCheckpoints, loadNewestCheckpoint, METRICS, openRun, readCheckpoint, truncateLogs, WriteError, type RunInputs,
+  checkpointPath, EVENTS, listCheckpoints, loadNewestCheckpoint, METRICS, openRun, readCheckpoint, truncateLogs, WriteError, type RunInputs,
 } from '../../src/store/index.js';
 import { advance, lineCount, makeRun, SLOW, tempDir, tempFiles } from './helpers.js';
+import { loop, Run } from '../../src/run/index.js';
 
 let root = '';
 /** An undisturbed run of the same recipe to iteration 3. */
@@ -30,7 +31,7 @@ afterAll(() => rmSync(root, { recursive: true, force: true }));
 async function driveUntilFailure(inputs: RunInputs, start: RunState): Promise<{ error: unknown; finished: RunState[] }> {
   const finished: RunState[] = [];
   try {
-    await drive(inputs, start, { evaluator: new InlineEvaluator(), targetIterations: 3, minutes: 0, stopRequested: () => null, onIteration: (o) => finished.push(o.state) });
+    await loop(Run.of(inputs), start, { evaluator: new InlineEvaluator(), targetIterations: 3, minutes: 0, stopRequested: () => null, onIteration: (o) => finished.push(o.state) });
   } catch (error) {
     return { error, finished };
   }

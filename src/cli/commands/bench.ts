@@ -2,7 +2,7 @@ import { dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
 import { benchCheckpoint, benchLearning, benchPool, benchRollouts, benchScaling, benchScene, benchSoak } from '../../bench/index.js';
-import { defaultWorkerCount, makeEvaluator } from '../../pool/index.js';
+import { defaultWorkerCount, makeEvaluator, threads } from '../../pool/index.js';
 import { intIn } from '../options.js';
 import { InvalidArgumentError } from 'commander';
 import { Progress } from '../progress.js';
@@ -64,7 +64,7 @@ async function extras(o: BenchOptions, root: string, progress: Progress): Promis
   const json: Record<string, unknown> = {};
   const rows: Row[] = [];
   if (!o.learn && !o.checkpoint && !o.soak) return { json, rows };
-  const evaluator = makeEvaluator(o.workers);
+  const evaluator = makeEvaluator(threads(o.workers));
   try {
     if (o.learn) {
       progress.update(`learning to walk, ${o.learn} seeds...`, true);

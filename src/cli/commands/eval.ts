@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { loadBodyPlan, observationSize, actionSize } from '../../body/index.js';
 import { stream, UserError } from '../../core/index.js';
-import { makeEvaluator, sceneBatch } from '../../pool/index.js';
+import { makeEvaluator, threads, sceneBatch } from '../../pool/index.js';
 import { initParams, type PolicyShape } from '../../policy/index.js';
 import { assertPolicyFits, defaultRolloutOptions } from '../../sim/index.js';
 import { loadWalker, writeFileAtomic } from '../../store/index.js';
@@ -27,7 +27,7 @@ async function evalCurriculum(o: EvalOptions): Promise<void> {
   const w = o.walker ? loadSafetensorsWalker(o.walker) : loadSafetensorsWalker(ref.path, ref.sha256);
   assertPolicyFits(w.shape, plan, o.walker ?? ref.path);
   const batch = sceneBatch(courseOf(entry), plan, w.shape, { ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 }, Array.from(w.params));
-  const evaluator = makeEvaluator(o.workers ?? 0);
+  const evaluator = makeEvaluator(threads(o.workers ?? 0));
   try {
     const [r] = await evaluator.evaluate(batch);
     if (o.trace && r.trace) writeFileAtomic(o.trace, `${JSON.stringify({ course: batch.courses[0], plan: plan.name, trace: r.trace })}\n`);
@@ -56,7 +56,7 @@ async function evalAction(o: EvalOptions): Promise<void> {
   assertPolicyFits(shape, plan, String(o.walker));
   const params = walker ? walker.params : Array.from(initParams(shape, stream(o.seed, 'walker/init')));
   const batch = sceneBatch(course, plan, shape, { ...defaultRolloutOptions(), maxSteps: o.steps, traceEvery: o.trace ? 5 : 0 }, params);
-  const evaluator = makeEvaluator(o.workers ?? 0);
+  const evaluator = makeEvaluator(threads(o.workers ?? 0));
   try {
     const [r] = await evaluator.evaluate(batch);
     if (o.trace && r.trace) writeFileAtomic(o.trace, `${JSON.stringify({ course, plan: plan.name, trace: r.trace })}\n`);

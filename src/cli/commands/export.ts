@@ -1,16 +1,15 @@
-import { join } from 'node:path';
 import type { Command } from 'commander';
-import { writeExport, type Only, type Order } from '../../export/index.js';
-import { openRun } from '../../store/index.js';
+import type { Only, Order } from '../../export/index.js';
+import { exportRun, Run } from '../../run/index.js';
 import { oneOf } from '../options.js';
 
 interface ExportOptions { out?: string; order: Order; only: Only; json?: boolean }
 
 function exportAction(dir: string, o: ExportOptions): void {
-  const { inputs, state, skipped } = openRun(dir);
+  const run = Run.open(dir);
+  const { state, skipped } = run.latest();
   for (const s of skipped) process.stderr.write(`cairn: skipped checkpoint ${s.file}: ${s.reason}; exporting an older one\n`);
-  const out = o.out ?? join(inputs.dir, 'exports', 'curriculum');
-  const r = writeExport(inputs, state, out, o.order, o.only);
+  const r = exportRun(run, state, o.out, o.order, o.only);
   if (o.json) process.stdout.write(`${JSON.stringify({ ...r, iteration: state.iteration })}\n`);
   else process.stdout.write(`exported ${r.courses} courses and ${r.walkers} walkers (iteration ${state.iteration}) to ${r.dir}\n`);
 }

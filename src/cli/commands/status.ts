@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
-import { fingerprint, makeContext, metricsOf } from '../../coevo/index.js';
-import { DESCRIPTOR_NAMES, difficulty } from '../../terrain/index.js';
-import { openRun } from '../../store/index.js';
+import { Run, runStatus } from '../../run/index.js';
+import { DESCRIPTOR_NAMES } from '../../terrain/index.js';
+import { plural } from '../progress.js';
 
 interface StatusOptions { json?: boolean }
 
@@ -12,31 +12,30 @@ function highlights(d: readonly number[]): string {
 }
 
 function statusAction(dir: string, o: StatusOptions): void {
-  const { inputs, state, skipped } = openRun(dir);
-  const ctx = makeContext(inputs.recipe, inputs.family, inputs.plan);
-  const m = metricsOf(state, ctx);
-  const fp = fingerprint(state, inputs.recipeHash);
+  const run = Run.open(dir);
+  const { state, skipped } = run.latest();
+  const { status: s, pairs } = runStatus(run, state, skipped);
   if (o.json) {
-    process.stdout.write(`${JSON.stringify({ ...m, fingerprint: fp, targetIterations: inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length })}\n`);
+    process.stdout.write(`${JSON.stringify(s)}\n`);
     return;
   }
   const lines = [
-    `run ${inputs.dir}`,
-    `iteration ${state.iteration} of ${inputs.recipe.budget.iterations}; ${m.activePairs} active pairs; ${m.admitted} courses admitted; ${m.archived} archived; ${m.solved} solved; ${m.takeovers} takeovers`,
-    `hardest solved course: difficulty ${m.hardestSolved.toFixed(3)}; rollouts ${state.counters.rollouts.toLocaleString('en-US')}`,
-    `fingerprint ${fp}`,
+    `run ${run.dir}`,
+    `iteration ${state.iteration} of ${s.targetIterations}; ${plural(s.activePairs, 'active pair')}; ${plural(s.admitted, 'course')} admitted; ${s.archived} archived; ${s.solved} solved; ${plural(s.takeovers, 'takeover')}`,
+    `hardest solved course: difficulty ${s.hardestSolved.toFixed(3)}; rollouts ${s.rollouts.toLocaleString('en-US')}`,
+    `fingerprint ${s.fingerprint}`,
     '',
     `${'course'.padEnd(7)}${'parent'.padEnd(8)}${'age'.padEnd(6)}${'walker'.padEnd(8)}${'progress'.padEnd(10)}${'solved'.padEnd(8)}${'difficulty'.padEnd(12)}features`,
   ];
-  for (const p of state.pairs) {
-    const c = state.courses.find((r) => r.id === p.courseId)!;
+  for (const p of pairs) {
+    const c = p.course;
     lines.push(
-      `${String(c.id).padEnd(7)}${String(c.parent ?? '-').padEnd(8)}${String(state.iteration - c.admittedAt).padEnd(6)}${String(p.walkerId).padEnd(8)}` +
-        `${p.progress.toFixed(3).padEnd(10)}${(c.solvedAt !== null ? `@${c.solvedAt}` : 'no').padEnd(8)}${difficulty(c.genome, inputs.family).toFixed(3).padEnd(12)}` +
+      `${String(c.id).padEnd(7)}${String(c.parent ?? '-').padEnd(8)}${String(p.age).padEnd(6)}${String(p.walkerId).padEnd(8)}` +
+        `${p.progress.toFixed(3).padEnd(10)}${(c.solvedAt !== null ? `@${c.solvedAt}` : 'no').padEnd(8)}${p.difficulty.toFixed(3).padEnd(12)}` +
         `${c.genome.features.length}: ${highlights(c.descriptor)}`,
     );
   }
-  for (const s of skipped) lines.push(`note: skipped checkpoint ${s.file}: ${s.reason}`);
+  for (const k of skipped) lines.push(`note: skipped checkpoint ${k.file}: ${k.reason}`);
   process.stdout.write(`${lines.join('\n')}\n`);
 }
 

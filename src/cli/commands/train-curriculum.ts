@@ -6,7 +6,7 @@ import { trainCurriculum, trainDirect, type CurriculumTrainSettings, type PathRe
 import { defaultEsConfig } from '../../evolve/index.js';
 import { bodyOf, courseOf, loadCurriculum } from '../../export/index.js';
 import { rolloutOptionsOf } from '../../export/index.js';
-import { makeEvaluator } from '../../pool/index.js';
+import { makeEvaluator, threads } from '../../pool/index.js';
 import type { PolicyShape } from '../../policy/index.js';
 import { saveWalker, writeFileAtomic } from '../../store/index.js';
 import { formatDuration, Progress } from '../progress.js';
@@ -37,7 +37,7 @@ export async function trainCurriculumAction(o: CurriculumTrainOptions): Promise<
   mkdirSync(out, { recursive: true });
   const progress = new Progress(o.quiet === true, 0);
   const t0 = performance.now();
-  const evaluator = makeEvaluator(o.workers);
+  const evaluator = makeEvaluator(threads(o.workers));
   try {
     const curriculum = await trainCurriculum(stages, plan, shape, settings, evaluator, (s) =>
       progress.update(`curriculum: course ${s.courseId} progress ${s.progress.toFixed(3)} after ${s.iterations} iterations (${formatDuration((performance.now() - t0) / 1000)})`, true));

@@ -5,7 +5,7 @@ import { actionSize, loadBodyPlan, observationSize } from '../../body/index.js';
 import { UserError } from '../../core/index.js';
 import { freshEsState, trainWalker } from '../../coevo/index.js';
 import { defaultEsConfig } from '../../evolve/index.js';
-import { defaultWorkerCount, makeEvaluator } from '../../pool/index.js';
+import { defaultWorkerCount, makeEvaluator, threads } from '../../pool/index.js';
 import type { PolicyShape } from '../../policy/index.js';
 import { defaultRolloutOptions } from '../../sim/index.js';
 import { saveWalker, writeFileAtomic } from '../../store/index.js';
@@ -39,7 +39,7 @@ async function trainAction(o: TrainOptions & Partial<CurriculumTrainOptions>): P
   const progress = new Progress(o.quiet === true);
   const lines: string[] = [];
   const t0 = performance.now();
-  const evaluator = makeEvaluator(o.workers);
+  const evaluator = makeEvaluator(threads(o.workers));
   try {
     const result = await trainWalker(course, plan, shape, freshEsState(shape, o.seed), settings, evaluator, (l) => {
       const seconds = (performance.now() - t0) / 1000;

@@ -1,12 +1,13 @@
-import { type KindDef, Slot, num } from './kind.js';
+import { type KindDef, num } from './kind.js';
 
 /** Depth a block is sunk into the ground, m, so roughness never opens a slit under it. */
 const EMBED = 0.5;
 
 /** A rectangular obstacle `width` × `height` metres standing on flat ground; the walker must climb over it. */
 export const block: KindDef = {
-  kind: 'block',
   fields: ['width', 'height'],
+  positive: ['width', 'height'],
+  descriptor: [{ name: 'blockHeight', meaning: 'tallest block, m', of: (f) => num(f, 'height'), bound: (r) => r.height.max }],
   footprint: (f) => num(f, 'width'),
   build(f, level, b) {
     const x0 = f.x;
@@ -15,8 +16,5 @@ export const block: KindDef = {
     b.point(x1, level);
     b.obstacle([x0, level - EMBED, x1, level - EMBED, x1, top, x0, top]);
     return level;
-  },
-  describe(f, d) {
-    d[Slot.BlockHeight] = Math.max(d[Slot.BlockHeight], num(f, 'height'));
   },
 };

@@ -1,9 +1,10 @@
-import { type KindDef, Slot, num } from './kind.js';
+import { type KindDef, num } from './kind.js';
 
 /** A hole in the ground `width` metres wide, with a pit of the family's depth under it. */
 export const gap: KindDef = {
-  kind: 'gap',
   fields: ['width'],
+  positive: ['width'],
+  descriptor: [{ name: 'gapWidth', meaning: 'widest gap, m', of: (f) => num(f, 'width'), bound: (r) => r.width.max }],
   footprint: (f) => num(f, 'width'),
   build(f, level, b) {
     const w = num(f, 'width');
@@ -11,8 +12,5 @@ export const gap: KindDef = {
     b.point(f.x + w, level - b.pitDepth);
     b.point(f.x + w, level);
     return level;
-  },
-  describe(f, d) {
-    d[Slot.GapWidth] = Math.max(d[Slot.GapWidth], num(f, 'width'));
   },
 };

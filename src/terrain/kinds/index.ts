@@ -1,14 +1,18 @@
-import type { FeatureKind } from '../types.js';
 import { block } from './block.js';
 import { gap } from './gap.js';
 import type { KindDef } from './kind.js';
 import { slope } from './slope.js';
 import { step } from './step.js';
 
-/** Every registered feature kind. Adding a kind: write its file, add it here and to `FeatureKind`. */
-export const KINDS: Readonly<Record<FeatureKind, KindDef>> = { gap, step, block, slope };
+/**
+ * Every registered feature kind, in descriptor order. Adding a kind: write its file, add it
+ * here (at the end, so existing descriptors keep their layout), and allow it in a family.
+ */
+export const KINDS = { gap, step, block, slope } as const satisfies Record<string, KindDef>;
 
-export const KIND_NAMES: readonly FeatureKind[] = ['gap', 'step', 'block', 'slope'];
+/** Names of the feature kinds cairn knows. */
+export type FeatureKind = keyof typeof KINDS;
 
-export type { KindDef, CourseBuilder } from './kind.js';
-export { Slot } from './kind.js';
+export const KIND_NAMES = Object.keys(KINDS) as FeatureKind[];
+
+export type { KindDef, CourseBuilder, DescriptorComponent, KindRanges } from './kind.js';

@@ -1,4 +1,4 @@
-import type { Feature, FeatureKind } from '../types.js';
+import type { Feature, FieldRange } from '../types.js';
 
 /** Collects course geometry while features are laid out left to right. */
 export interface CourseBuilder {
@@ -12,29 +12,33 @@ export interface CourseBuilder {
   readonly pitDepth: number;
 }
 
-/** Indices into the descriptor vector (see `descriptor.ts` for meanings and units). */
-export const enum Slot {
-  GapWidth = 0,
-  StepUp = 1,
-  StepDown = 2,
-  BlockHeight = 3,
-  Uphill = 4,
-  Downhill = 5,
-  Roughness = 6,
-  Count = 7,
+/** The ranges a family gives one kind's fields, by field name. */
+export type KindRanges = Readonly<Record<string, FieldRange>>;
+
+/** One component of the descriptor that a kind contributes: the largest value over its features. */
+export interface DescriptorComponent {
+  /** Name in DESCRIPTOR_NAMES, reports and exports. */
+  readonly name: string;
+  /** What it measures, with its unit. */
+  readonly meaning: string;
+  /** Its value for one feature (≥ 0; 0 when the feature does not raise it). */
+  of(f: Feature): number;
+  /** Its largest value over every valid feature of a family with these ranges. */
+  bound(r: KindRanges): number;
 }
 
 /** Everything cairn needs to know about one kind of feature. */
 export interface KindDef {
-  readonly kind: FeatureKind;
   /** Numeric fields besides `x`, in the order they are documented. */
   readonly fields: readonly string[];
+  /** Fields whose family range must lie above 0 (sizes that cannot be zero or negative). */
+  readonly positive: readonly string[];
+  /** Descriptor components this kind raises, in descriptor order. */
+  readonly descriptor: readonly DescriptorComponent[];
   /** Horizontal extent from `x`, m. */
   footprint(f: Feature): number;
   /** Lays the feature out starting at ground level `level` (the builder's last point is at x = f.x); returns the level after it. */
   build(f: Feature, level: number, b: CourseBuilder): number;
-  /** Raises the descriptor slots this feature affects. */
-  describe(f: Feature, d: number[]): void;
 }
 
 /** Numeric field `name` of a feature. */

@@ -1,0 +1,102 @@
+import type { RunState, StepOutcome } from '../coevo/index.js';
+import { UserError } from '../core/index.js';
+import { makeEvaluator, type Backend, type PoolEvent } from '../pool/index.js';
+import { logPoolEvent, openRunDir, removeStaleTemps, takeLock, truncateLogs, type RunOverrides } from '../store/index.js';
+import { loop, type StopReason } from './loop.js';
+import { Run } from './run.js';
+
+/** What a command wants to hear while a run goes on. */
+export interface SessionHooks {
+  /** A line worth telling the user (run directory, resume point, a lost job re-run); hidden by --quiet. */
+  readonly note?: (text: string) => void;
+  /** A line the user must see even when quiet (a stale lock taken over, a checkpoint skipped). */
+  readonly warn?: (text: string) => void;
+  readonly onIteration?: (o: StepOutcome, run: Run, startIteration: number) => void;
+  /** Polled between iterations. */
+  readonly stopRequested: () => 'sigint' | 'sigterm' | null;
+}
+
+export interface SessionResult {
+  readonly run: Run;
+  readonly state: RunState;
+  readonly reason: StopReason;
+  readonly startIteration: number;
+}
+
+/** Runs `body` holding the run directory's lock, released however it ends. */
+async function withLock<T>(dir: string, hooks: SessionHooks, body: () => Promise<T>): Promise<T> {
+  const lock = takeLock(dir);
+  if (lock.note) hooks.warn?.(lock.note);
+  try {
+    return await body();
+  } finally {
+    lock.release();
+  }
+}
+
+/** Drives `run` from `start` to its budget on the backend's evaluator, then closes the evaluator. */
+async function drive(run: Run, start: RunState, backend: Backend, hooks: SessionHooks): Promise<SessionResult> {
+  const onEvent = (e: PoolEvent): void => {
+    logPoolEvent(run.dir, e);
+    hooks.note?.(`job lost (${e.reason}); tasks ${e.tasks.join(', ')} re-run`);
+  };
+  const evaluator = makeEvaluator(backend, { onEvent });
+  try {
+    const { budget } = run.inputs.recipe;
+    const { state, reason } = await loop(run, start, {
+      evaluator, targetIterations: budget.iterations, minutes: budget.minutes, stopRequested: hooks.stopRequested,
+      onIteration: (o) => hooks.onIteration?.(o, run, start.iteration),
+    });
+    return { run, state, reason, startIteration: start.iteration };
+  } finally {
+    await evaluator.close();
+  }
+}
+
+/** `cairn run`: a new run directory, its checkpoint 0, then the loop. */
+export async function startRun(recipePath: string, out: string | undefined, overrides: RunOverrides, backend: Backend, hooks: SessionHooks): Promise<SessionResult> {
+  const run = Run.create(recipePath, out, overrides);
+  return withLock(run.dir, hooks, async () => {
+    const state = run.initialState();
+    run.checkpoint(state);
+    hooks.note?.(`run directory ${run.dir}`);
+    return drive(run, state, backend, hooks);
+  });
+}
+
+export interface ResumeOptions {
+  /** New total target (default: the frozen recipe's). */
+  readonly iterations?: number;
+  /** Wall-clock budget of this invocation, minutes (default none). */
+  readonly minutes?: number;
+}
+
+/**
+ * `cairn resume`: under the lock, removes temporary files of interrupted writes, loads the
+ * newest verified checkpoint (a run stopped before its first one starts from iteration 0),
+ * drops log lines written after it, and continues the loop to the new target.
+ */
+export async function resumeRun(dir: string, o: ResumeOptions, backend: Backend, hooks: SessionHooks): Promise<SessionResult> {
+  // The lock comes before any write: temp files, logs and budget of a live run are its own.
+  return withLock(openRunDir(dir).dir, hooks, async () => {
+    removeStaleTemps(dir);
+    const opened = Run.open(dir);
+    const found = opened.newest();
+    for (const s of found.skipped) hooks.warn?.(`skipped checkpoint ${s.file}: ${s.reason}; falling back to an older one`);
+    let state = found.state;
+    if (!state) {
+      if (found.skipped.length > 0) opened.latest(); // throws, listing why each checkpoint was refused
+      state = opened.initialState();
+      opened.checkpoint(state);
+      hooks.note?.('no checkpoint yet (stopped before its first one): starting from iteration 0');
+    }
+    const target = o.iterations ?? opened.inputs.recipe.budget.iterations;
+    if (target < state.iteration) {
+      throw new UserError(`--iterations ${target} is below the run's current iteration ${state.iteration}; it counts the total, so give at least ${state.iteration}`);
+    }
+    const run = opened.withBudget(target, o.minutes ?? 0);
+    truncateLogs(run.dir, state.iteration);
+    hooks.note?.(`resuming ${run.dir} at iteration ${state.iteration}`);
+    return drive(run, state, backend, hooks);
+  });
+}

@@ -1,0 +1,75 @@
+import { dirname, join } from 'node:path';
+import { mkdirSync } from 'node:fs';
+import type { CourseRecord, IterationMetrics, RunState } from '../coevo/index.js';
+import { UserError } from '../core/index.js';
+import { loadSafetensorsWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
+import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
+import { initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
+import { loadWalker, writeFileAtomic, type SkippedCheckpoint } from '../store/index.js';
+import { buildCourse, difficulty } from '../terrain/index.js';
+import type { Run } from './run.js';
+
+/** What `status` shows: the metrics line's figures plus identity and budget, and the active pairs. */
+export interface RunStatus extends IterationMetrics {
+  readonly fingerprint: string;
+  readonly targetIterations: number;
+  readonly skippedCheckpoints: number;
+}
+
+export interface PairRow {
+  readonly course: CourseRecord;
+  readonly walkerId: number;
+  readonly progress: number;
+  readonly age: number;
+  readonly difficulty: number;
+}
+
+export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCheckpoint[]): { status: RunStatus; pairs: PairRow[] } {
+  const status = { ...run.metrics(state), fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length };
+  const pairs = state.pairs.map((p) => {
+    const course = state.courses.find((r) => r.id === p.courseId)!;
+    return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: difficulty(course.genome, run.inputs.family) };
+  });
+  return { status, pairs };
+}
+
+/** Replays every course's walker on the backend and writes the report page to `out` (default <run>/report/index.html). */
+export async function writeReport(run: Run, state: RunState, out: string | undefined, backend: Backend): Promise<string> {
+  const file = out ?? join(run.dir, 'report', 'index.html');
+  const evaluator = makeEvaluator(backend);
+  try {
+    const data = await reportData(run.ctx, state, run.metricsLog(state.iteration), evaluator);
+    mkdirSync(dirname(file), { recursive: true });
+    writeFileAtomic(file, reportHtml({ ...data, initialCourse: initialCourse(data) }));
+    return file;
+  } finally {
+    await evaluator.close();
+  }
+}
+
+/** A strobe picture of one course's walker (its solver or best, or a walker file), written as SVG. */
+export async function writeStrobe(run: Run, state: RunState, courseId: number, walkerFile: string | undefined, every: number, out: string): Promise<{ progress: number }> {
+  const rec = state.courses.find((c) => c.id === courseId);
+  if (!rec) throw new UserError(`Run ${run.dir} has no course ${courseId}; it has ${state.courses.map((c) => c.id).join(', ')}`);
+  let params: readonly number[] = (rec.solvedBy ?? rec.best).params;
+  let shape = run.ctx.shape;
+  if (walkerFile) {
+    const w = walkerFile.endsWith('.safetensors') ? loadSafetensorsWalker(walkerFile) : loadWalker(walkerFile);
+    params = Array.from(w.params);
+    shape = w.shape;
+  }
+  const course = buildCourse(rec.genome, run.inputs.family);
+  const evaluator = makeEvaluator(threads(0));
+  try {
+    const [r] = await evaluator.evaluate(sceneBatch(course, run.inputs.plan, shape, { ...run.ctx.rollout, traceEvery: 5 }, params));
+    writeFileAtomic(out, strobeSvg(course, run.inputs.plan.segments, r.trace?.frames ?? [], `course ${rec.id}: progress ${r.progress.toFixed(3)}`, every));
+    return { progress: r.progress };
+  } finally {
+    await evaluator.close();
+  }
+}
+
+/** Writes the run's courses as a curriculum export (default <run>/exports/curriculum). */
+export function exportRun(run: Run, state: RunState, out: string | undefined, order: Order, only: Only): ExportResult {
+  return writeExport(run.ctx, state, out ?? join(run.dir, 'exports', 'curriculum'), order, only);
+}
