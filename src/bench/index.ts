@@ -8,3 +8,7 @@ export { benchLearning } from './learn-bench.js';
 export type { LearnBench, LearnRun } from './learn-bench.js';
 export { benchCheckpoint, benchSoak } from './run-bench.js';
 export type { CheckpointBench, SoakBench } from './run-bench.js';
+export { benchQueue } from './queue-bench.js';
+export type { QueueBench } from './queue-bench.js';
+export { startRedis, freePort } from './redis-server.js';
+export type { RedisServer } from './redis-server.js';

@@ -1,5 +1,5 @@
 import { median } from '../core/index.js';
-import { emptyBatch, makeEvaluator, threads, type Batch } from '../pool/index.js';
+import { emptyBatch, makeEvaluator, threads, type Batch, type Evaluator } from '../pool/index.js';
 import { benchOptions, type BenchScene } from './fixture.js';
 
 /** A batch of `n` closed-loop rollouts of mirrored perturbations of the scene's walker. */
@@ -41,20 +41,25 @@ export interface PoolBench {
   readonly batchMs: { readonly inline: number; readonly workers1: number; readonly workers2: number };
 }
 
-/** Median times of the same batch on several evaluators, run in turns so drifts hit all alike. */
+/** Median times of the same batch on each evaluator, ms, run in turns so drifts of a shared machine hit all alike. */
+export async function timeInTurns(batch: Batch, evs: readonly Evaluator[], warmups: number, rounds: number): Promise<number[]> {
+  for (const ev of evs) for (let i = 0; i < warmups; i++) await ev.evaluate(batch);
+  const times: number[][] = evs.map(() => []);
+  for (let r = 0; r < rounds; r++) {
+    for (const [k, ev] of evs.entries()) {
+      const t0 = performance.now();
+      await ev.evaluate(batch);
+      times[k].push(performance.now() - t0);
+    }
+  }
+  return times.map(median);
+}
+
+/** {@link timeInTurns} on fresh evaluators of the given worker counts. */
 async function interleaved(batch: Batch, workerCounts: readonly number[], warmups: number, rounds: number): Promise<number[]> {
   const evs = workerCounts.map((w) => makeEvaluator(threads(w)));
   try {
-    for (const ev of evs) for (let i = 0; i < warmups; i++) await ev.evaluate(batch);
-    const times: number[][] = evs.map(() => []);
-    for (let r = 0; r < rounds; r++) {
-      for (const [k, ev] of evs.entries()) {
-        const t0 = performance.now();
-        await ev.evaluate(batch);
-        times[k].push(performance.now() - t0);
-      }
-    }
-    return times.map(median);
+    return await timeInTurns(batch, evs, warmups, rounds);
   } finally {
     await Promise.all(evs.map((e) => e.close()));
   }

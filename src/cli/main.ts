@@ -7,6 +7,7 @@ import { registerRun } from './commands/run.js';
 import { registerStatus } from './commands/status.js';
 import { registerExport } from './commands/export.js';
 import { registerReport } from './commands/report.js';
+import { registerWorker } from './commands/worker.js';
 import { EXIT, reportError } from './fail.js';
 
 const program = new Command();
@@ -24,6 +25,7 @@ registerReport(program);
 registerEval(program);
 registerTrain(program);
 registerBench(program);
+registerWorker(program);
 for (const c of program.commands) c.exitOverride();
 
 try {

@@ -7,3 +7,5 @@ export type { Vec } from './vec.js';
 export { readJsonFile } from './json.js';
 export { parseWith, formatPath } from './schema.js';
 export { NOISE_LABEL, perturbation, candidate } from './noise.js';
+export { writerVersions, versionDifferences } from './versions.js';
+export type { Versions } from './versions.js';

@@ -1,6 +1,6 @@
 export type { PolicyRef, RolloutTask, Task, BatchTables, Batch, MutableBatch, PoolEvent, Evaluator } from './task.js';
 export { emptyBatch, sceneBatch } from './task.js';
-export type { Transport, JobItem, BatchRef, RunningJob } from './transport.js';
+export type { Transport, JobItem, BatchRef, RunningJob, BackendStatus } from './transport.js';
 export { ScheduledEvaluator } from './scheduler.js';
 export type { SchedulerOptions } from './scheduler.js';
 export { InlineEvaluator, InlineTransport } from './inline.js';
@@ -9,5 +9,7 @@ export type { ThreadOptions } from './threads.js';
 export { runTask } from './run-task.js';
 export { serveTasks } from './worker-loop.js';
 export type { TaskRunner } from './worker-loop.js';
-export { makeEvaluator, defaultWorkerCount, threads, describeBackend } from './make.js';
+export { makeEvaluator, defaultWorkerCount, threads, queueBackend, describeBackend } from './make.js';
+export { serveQueue, parseRedisUrl, QueueTransport, QUEUE_TIMING } from './queue/index.js';
+export type { QueueWorker, RedisAddress } from './queue/index.js';
 export type { Backend } from './make.js';

@@ -1,6 +1,6 @@
 import type { RolloutResult } from '../sim/index.js';
 import type { Batch, Evaluator, PoolEvent } from './task.js';
-import type { BatchRef, JobItem, RunningJob, Transport } from './transport.js';
+import type { BackendStatus, BatchRef, JobItem, RunningJob, Transport } from './transport.js';
 
 export interface SchedulerOptions {
   /** Wall-clock limit of one task, ms; a job of k tasks gets k times this. Default 120 000; Infinity for none. */
@@ -8,6 +8,9 @@ export interface SchedulerOptions {
   /** Told about every job that failed and was re-queued. */
   readonly onEvent?: (e: PoolEvent) => void;
 }
+
+/** Rollouts per second are counted over this window, ms. */
+const RATE_WINDOW_MS = 10_000;
 
 interface Job { readonly id: number; readonly items: readonly JobItem[] }
 
@@ -36,6 +39,8 @@ export class ScheduledEvaluator implements Evaluator {
   private failuresSinceSuccess = 0;
   private broken: Error | null = null;
   private closed = false;
+  /** Finish times (ms) and sizes of recent jobs, for rollouts per second. */
+  private readonly recent: { at: number; tasks: number }[] = [];
 
   constructor(protected readonly transport: Transport, private readonly options: SchedulerOptions = {}) {
     this.timeoutMs = options.taskTimeoutMs ?? 120_000;
@@ -94,7 +99,7 @@ export class ScheduledEvaluator implements Evaluator {
     running = this.transport.run(cur.ref, job.items);
     running.result.then(
       (results) => finish(() => this.done(cur, job, results)),
-      (e: Error) => finish(() => this.lost(cur, job, e.message)),
+      (e: Error & { fatal?: boolean }) => finish(() => (e.fatal ? this.fatal(cur, e) : this.lost(cur, job, e.message))),
     );
   }
 
@@ -102,6 +107,8 @@ export class ScheduledEvaluator implements Evaluator {
     cur.inFlight--;
     if (this.current !== cur) return;
     this.failuresSinceSuccess = 0;
+    this.recent.push({ at: performance.now(), tasks: job.items.length });
+    this.trimRecent();
     job.items.forEach((item, k) => (cur.results[item.index] = results[k]));
     cur.remaining -= job.items.length;
     if (cur.remaining === 0) {
@@ -133,10 +140,27 @@ export class ScheduledEvaluator implements Evaluator {
     this.pump();
   }
 
+  /** A transport failure that retrying cannot mend ends the batch at once. */
+  private fatal(cur: Current, e: Error): void {
+    cur.inFlight--;
+    if (this.current === cur) this.fail(e);
+  }
+
   private fail(e: Error): void {
     const cur = this.current;
     this.current = null;
     cur?.reject(e);
+  }
+
+  status(): BackendStatus {
+    this.trimRecent();
+    const tasks = this.recent.reduce((s, r) => s + r.tasks, 0);
+    return { ...this.transport.status?.(), rolloutsPerSecond: tasks / (RATE_WINDOW_MS / 1000) };
+  }
+
+  private trimRecent(): void {
+    const now = performance.now();
+    while (this.recent.length > 0 && now - this.recent[0].at > RATE_WINDOW_MS) this.recent.shift();
   }
 
   async close(): Promise<void> {

@@ -2,6 +2,7 @@ import type { BodyPlan } from '../body/index.js';
 import type { PolicyShape } from '../policy/index.js';
 import type { RolloutOptions, RolloutResult } from '../sim/index.js';
 import type { Course } from '../terrain/index.js';
+import type { BackendStatus } from './transport.js';
 
 /**
  * The controller weights of a task: given outright, or rebuilt in the worker as
@@ -52,6 +53,8 @@ export interface Evaluator {
   evaluate(batch: Batch): Promise<RolloutResult[]>;
   /** Stops all threads and connections; the evaluator cannot be used afterwards. */
   close(): Promise<void>;
+  /** Live facts for progress lines (workers, rollouts per second, what it waits for). */
+  status?(): BackendStatus;
 }
 
 /** A batch under construction: every table and the task list can be appended to. */

@@ -36,4 +36,18 @@ export interface Transport {
   run(batch: BatchRef, items: readonly JobItem[]): RunningJob;
   /** Stops everything; the transport cannot be used afterwards. */
   close(): Promise<void>;
+  /** Who is there to run jobs, and what the transport waits for, if anything. */
+  status?(): BackendStatus;
+}
+
+/** Live facts for progress lines: not part of any result. */
+export interface BackendStatus {
+  /** Worker processes connected (queue backends). */
+  readonly workers?: number;
+  /** Threads running rollouts, over all workers. */
+  readonly threads?: number;
+  /** Rollouts finished per second over the last few seconds. */
+  readonly rolloutsPerSecond?: number;
+  /** Why no work is being done right now, when that is so. */
+  readonly waiting?: string;
 }

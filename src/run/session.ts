@@ -1,6 +1,6 @@
 import type { RunState, StepOutcome } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
-import { makeEvaluator, type Backend, type PoolEvent } from '../pool/index.js';
+import { makeEvaluator, type Backend, type BackendStatus, type PoolEvent } from '../pool/index.js';
 import { logPoolEvent, openRunDir, removeStaleTemps, takeLock, truncateLogs, type RunOverrides } from '../store/index.js';
 import { loop, type StopReason } from './loop.js';
 import { Run } from './run.js';
@@ -14,6 +14,8 @@ export interface SessionHooks {
   readonly onIteration?: (o: StepOutcome, run: Run, startIteration: number) => void;
   /** Polled between iterations. */
   readonly stopRequested: () => 'sigint' | 'sigterm' | null;
+  /** Every second while the run goes on: who runs rollouts, how fast, and what it waits for. */
+  readonly onStatus?: (s: BackendStatus) => void;
 }
 
 export interface SessionResult {
@@ -41,6 +43,8 @@ async function drive(run: Run, start: RunState, backend: Backend, hooks: Session
     hooks.note?.(`job lost (${e.reason}); tasks ${e.tasks.join(', ')} re-run`);
   };
   const evaluator = makeEvaluator(backend, { onEvent });
+  const ticker = hooks.onStatus && evaluator.status ? setInterval(() => hooks.onStatus!(evaluator.status!()), 1000) : null;
+  ticker?.unref();
   try {
     const { budget } = run.inputs.recipe;
     const { state, reason } = await loop(run, start, {
@@ -49,6 +53,7 @@ async function drive(run: Run, start: RunState, backend: Backend, hooks: Session
     });
     return { run, state, reason, startIteration: start.iteration };
   } finally {
+    if (ticker) clearInterval(ticker);
     await evaluator.close();
   }
 }

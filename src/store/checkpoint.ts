@@ -1,28 +1,12 @@
 import { readdirSync, readFileSync, rmSync } from 'node:fs';
-import { dirname, join } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import { createRequire } from 'node:module';
-import { canonicalJson, sha256, UserError } from '../core/index.js';
+import { join } from 'node:path';
+import { canonicalJson, sha256, UserError, writerVersions } from '../core/index.js';
 import type { RunState } from '../coevo/index.js';
 import { TEMP_PREFIX, writeFileAtomic } from './atomic.js';
 
 /** Checkpoint format version; a run written with another version is refused. */
 export const CHECKPOINT_VERSION = 1;
 const NAME = /^ckpt-(\d{9})\.json$/;
-
-let versions: { node: string; planck: string; cairn: string } | undefined;
-
-/** Versions of the programs that wrote a checkpoint (for the record; determinism needs the same ones). Read once. */
-export function writerVersions(): { node: string; planck: string; cairn: string } {
-  if (versions) return versions;
-  const require = createRequire(import.meta.url);
-  const version = (path: string): string => (JSON.parse(readFileSync(path, 'utf8')) as { version: string }).version;
-  // planck-js does not export its package.json; it sits one folder above its main file.
-  const planck = version(join(dirname(require.resolve('planck-js')), '..', 'package.json'));
-  const cairn = version(fileURLToPath(new URL('../../package.json', import.meta.url)));
-  versions = { node: process.version, planck, cairn };
-  return versions;
-}
 
 interface CheckpointFile {
   readonly format: 'cairn-checkpoint';

@@ -1,7 +1,7 @@
 export { writeFileAtomic, syncDir, TEMP_PREFIX, WriteError } from './atomic.js';
 export { loadWalker, saveWalker, WALKER_FORMAT } from './walker-file.js';
 export type { WalkerFile } from './walker-file.js';
-export { CHECKPOINT_VERSION, writeCheckpoint, listCheckpoints, readCheckpoint, loadNewestCheckpoint, removeStaleTemps, checkpointPath, writerVersions } from './checkpoint.js';
+export { CHECKPOINT_VERSION, writeCheckpoint, listCheckpoints, readCheckpoint, loadNewestCheckpoint, removeStaleTemps, checkpointPath } from './checkpoint.js';
 export type { SkippedCheckpoint } from './checkpoint.js';
 export { appendLines, readLines, truncateLogs, logPoolEvent, METRICS, EVENTS, FAULTS } from './logs.js';
 export { takeLock, processAlive } from './lock.js';

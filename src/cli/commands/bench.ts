@@ -1,13 +1,13 @@
 import { dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
-import { benchCheckpoint, benchLearning, benchPool, benchRollouts, benchScaling, benchScene, benchSoak } from '../../bench/index.js';
+import { benchCheckpoint, benchLearning, benchPool, benchQueue, benchRollouts, benchScaling, benchScene, benchSoak, startRedis, type QueueBench } from '../../bench/index.js';
 import { defaultWorkerCount, makeEvaluator, threads } from '../../pool/index.js';
 import { intIn } from '../options.js';
 import { InvalidArgumentError } from 'commander';
 import { Progress } from '../progress.js';
 
-interface BenchOptions { json?: boolean; quick?: boolean; scaling?: number[]; quiet?: boolean; learn?: number; checkpoint?: string; soak?: number; workers: number }
+interface BenchOptions { json?: boolean; quick?: boolean; scaling?: number[]; quiet?: boolean; learn?: number; checkpoint?: string; soak?: number; workers: number; queue?: string | true; queueCores?: number }
 
 function counts(v: string): number[] {
   const list = v.split(',').map((p) => Number(p.trim()));
@@ -33,8 +33,13 @@ async function benchAction(o: BenchOptions): Promise<void> {
     scaling = await benchScaling(scene, o.scaling, 256, 500, o.quick ? 2 : 3);
   }
   const extra = await extras(o, root, progress);
+  let queue: QueueBench | undefined;
+  if (o.queue) {
+    progress.update('queue backend against worker threads, and one coordinator\'s job rate...', true);
+    queue = await withRedis(o.queue, (url) => benchQueue(scene, url, o.queueCores ?? defaultWorkerCount(), 150, o.quick ? 300 : 1000, o.quick ? 2 : 5, o.quick ? 1000 : 4000));
+  }
   progress.done();
-  const report = { ...r, ...p, ...(scaling ? { scaling } : {}), ...extra.json, node: process.version, cores: (await import('node:os')).availableParallelism() };
+  const report = { ...r, ...p, ...(scaling ? { scaling } : {}), ...(queue ? { queue } : {}), ...extra.json, node: process.version, cores: (await import('node:os')).availableParallelism() };
   if (o.json) {
     process.stdout.write(`${JSON.stringify(report)}\n`);
     return;
@@ -53,11 +58,34 @@ async function benchAction(o: BenchOptions): Promise<void> {
   ];
   for (const s of scaling ?? []) rows.push([`${s.workers} workers, 256 rollouts`, `${fmt(s.ms)} ms  speed-up ${fmt(s.speedup, 2)}  efficiency ${fmt(100 * s.efficiency)}%`, '']);
   rows.push(...extra.rows);
+  if (queue) rows.push(...queueRows(queue));
   const w = Math.max(...rows.map((x) => x[0].length));
   for (const [a, b, c] of rows) process.stdout.write(`${a.padEnd(w)}  ${b}${c ? `  (${c})` : ''}\n`);
 }
 
 type Row = [string, string, string];
+
+/** Runs `body` against the given Redis URL, or against a throwaway redis-server when none is given. */
+async function withRedis<T>(url: string | true, body: (url: string) => Promise<T>): Promise<T> {
+  if (url !== true) return body(url);
+  const server = await startRedis();
+  try {
+    return await body(server.url);
+  } finally {
+    await server.stop();
+  }
+}
+
+function queueRows(q: QueueBench): Row[] {
+  const rows: Row[] = [
+    [`${q.tasks} rollouts of ${q.steps} steps on ${q.cores} cores: threads / queue`, `${fmt(q.threadsMs)} / ${fmt(q.queueMs)} ms; queue over threads ${fmt(q.ratio, 2)}`, 'target ≥ 0.9'],
+    [`coordinator + Redis, ${q.trivialJobs} one-step jobs`, `${fmt(q.trivialJobsPerSecond)} jobs/s`, 'target ≥ 2,000'],
+  ];
+  for (const p of q.projection) {
+    rows.push([`projection, ${p.cores} cores`, `needs ${fmt(p.jobsPerSecondNeeded)} jobs/s at ${q.jobSize} rollouts/job of ${fmt(q.rolloutMs, 1)} ms; coordinator keeps ${fmt(100 * p.coordinatorShare)}% busy; speed-up ≈ ${fmt(p.projectedSpeedup)}`, 'projection']);
+  }
+  return rows;
+}
 
 /** The optional sections: learning to walk, checkpoint cost, memory over a long run. */
 async function extras(o: BenchOptions, root: string, progress: Progress): Promise<{ json: Record<string, unknown>; rows: Row[] }> {
@@ -103,6 +131,8 @@ export function registerBench(program: Command): void {
     .option('--checkpoint <run-dir>', 'also time checkpoint writes against iterations of this run')
     .option('--soak <iterations>', 'also track resident memory over this many iterations of runs/smoke.json', intIn(1, 1_000_000))
     .option('--workers <n>', 'worker threads for --learn, --checkpoint and --soak', intIn(0, 1024), defaultWorkerCount())
+    .option('--queue [url]', 'also compare the Redis queue backend with worker threads and time one coordinator\'s job rate; without a URL a throwaway redis-server is started')
+    .option('--queue-cores <n>', 'cores for the queue comparison (default: all)', intIn(1, 1024))
     .option('--quiet', 'no progress on stderr')
     .action(benchAction);
 }

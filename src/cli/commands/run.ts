@@ -1,13 +1,14 @@
 import type { Command } from 'commander';
 import type { StepOutcome } from '../../coevo/index.js';
 import { resumeRun, startRun, type Run, type SessionHooks, type SessionResult } from '../../run/index.js';
-import { backendOf, workersOption } from '../backend.js';
+import type { BackendStatus } from '../../pool/index.js';
+import { backendOf, backendOptions, type BackendFlags } from '../backend.js';
 import { EXIT } from '../fail.js';
 import { intIn, numberIn } from '../options.js';
 import { formatDuration, plural, Progress } from '../progress.js';
 import { installStopHandlers } from '../signals.js';
 
-interface LoopOptions { workers: number; quiet?: boolean }
+interface LoopOptions extends BackendFlags { quiet?: boolean }
 
 function progressLine(o: StepOutcome, target: number, t0: number, startIt: number): string {
   const m = o.metrics;
@@ -18,17 +19,35 @@ function progressLine(o: StepOutcome, target: number, t0: number, startIt: numbe
     `best ${m.bestProgress.toFixed(2)}  ${rate.toFixed(1)} it/min  ETA ${formatDuration(eta * 60)}`;
 }
 
+/** "workers 3 (6 threads)  412 rollouts/s", or what the backend waits for. */
+function statusText(s: BackendStatus): string {
+  if (s.waiting) return s.waiting;
+  const who = s.workers !== undefined ? `workers ${s.workers} (${s.threads ?? 0} threads)  ` : '';
+  return `${who}${Math.round(s.rolloutsPerSecond ?? 0)} rollouts/s`;
+}
+
 /** Progress, signals and the closing lines shared by run and resume. */
 async function session(o: LoopOptions, go: (hooks: SessionHooks) => Promise<SessionResult>): Promise<void> {
   const progress = new Progress(o.quiet === true);
   const stops = installStopHandlers((s) => progress.note(s));
   const t0 = performance.now();
+  let line = 'starting';
+  let live = '';
+  const draw = (): void => progress.update(live ? `${line}  |  ${live}` : line);
   try {
     const { run, state, reason } = await go({
       note: (s) => progress.note(s),
       warn: (s) => { progress.done(); process.stderr.write(`cairn: ${s}\n`); },
       stopRequested: stops.requested,
-      onIteration: (out: StepOutcome, r: Run, startIt: number) => progress.update(progressLine(out, r.inputs.recipe.budget.iterations, t0, startIt)),
+      onIteration: (out: StepOutcome, r: Run, startIt: number) => { line = progressLine(out, r.inputs.recipe.budget.iterations, t0, startIt); draw(); },
+      onStatus: (s) => {
+        const next = statusText(s);
+        // A note when the backend starts waiting for something else, not each second it waits.
+        const changed = next.replace(/\d+/g, '#') !== live.replace(/\d+/g, '#');
+        live = next;
+        if (s.waiting && changed) progress.note(s.waiting);
+        draw();
+      },
     });
     progress.done();
     const m = run.metrics(state);
@@ -61,7 +80,7 @@ export function registerRun(program: Command): void {
     .description('start a co-evolution run from a recipe')
     .argument('<recipe>', 'recipe file (JSON)')
     .option('--out <dir>', 'run directory (default runs/<recipe name>)');
-  workersOption(run)
+  backendOptions(run)
     .option('--seed <n>', 'override the recipe seed', intIn(0, 2 ** 31 - 1))
     .option('--iterations <n>', 'total iterations to reach', intIn(1, 100_000_000))
     .option('--minutes <m>', 'stop cleanly after this many minutes', numberIn(0, 1e7))
@@ -71,7 +90,7 @@ export function registerRun(program: Command): void {
     .command('resume')
     .description('continue a run from its newest valid checkpoint')
     .argument('<run-dir>', 'run directory');
-  workersOption(resume)
+  backendOptions(resume)
     .option('--iterations <n>', 'total iterations to reach (not a count of more)', intIn(1, 100_000_000))
     .option('--minutes <m>', 'stop cleanly after this many minutes', numberIn(0, 1e7))
     .option('--quiet', 'no progress on stderr')

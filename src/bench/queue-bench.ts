@@ -1,0 +1,99 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
+import { makeEvaluator, QueueTransport, parseRedisUrl, ScheduledEvaluator, threads } from '../pool/index.js';
+import { benchBatch, timeInTurns } from './pool-bench.js';
+import type { BenchScene } from './fixture.js';
+
+/** The command line, to start `cairn worker` processes beside this one. */
+const CLI = fileURLToPath(new URL('../cli/main.js', import.meta.url));
+
+/** `cairn worker` processes on a queue, started for a benchmark and stopped after it. */
+async function startWorkers(url: string, queue: string, processes: number, threadsEach: number): Promise<ChildProcess[]> {
+  const kids = Array.from({ length: processes }, () =>
+    spawn(process.execPath, [CLI, 'worker', '--queue', url, '--queue-name', queue, '--threads', String(threadsEach)], { stdio: ['ignore', 'ignore', 'pipe'] }));
+  await Promise.all(kids.map((k) => new Promise<void>((resolve, reject) => {
+    let err = '';
+    k.stderr!.setEncoding('utf8').on('data', (s: string) => {
+      err += s;
+      if (/ on queue /.test(err)) resolve();
+    });
+    k.once('exit', (code) => reject(new Error(`cairn worker exited with ${code}: ${err}`)));
+  })));
+  return kids;
+}
+
+async function stopWorkers(kids: readonly ChildProcess[]): Promise<void> {
+  await Promise.all(kids.map((k) => new Promise<void>((resolve) => {
+    if (k.exitCode !== null) return resolve();
+    k.once('exit', () => resolve());
+    k.kill('SIGTERM');
+  })));
+}
+
+export interface QueueBench {
+  /** Cores given to rollouts on each side: threads of this process, or one worker process with that many threads. */
+  readonly cores: number;
+  readonly tasks: number;
+  readonly steps: number;
+  /** Median batch times, ms. */
+  readonly threadsMs: number;
+  readonly queueMs: number;
+  /** Queue throughput over worker-thread throughput at equal cores (target ≥ 0.9). */
+  readonly ratio: number;
+  /** Jobs of one one-step rollout each that one coordinator and Redis turn around per second (target ≥ 2,000). */
+  readonly trivialJobsPerSecond: number;
+  readonly trivialJobs: number;
+  /** Mean rollout time and job size of the batch above, used for the projection. */
+  readonly rolloutMs: number;
+  readonly jobSize: number;
+  /** What the coordinator's job rate would allow at larger core counts: a projection, not a measurement. */
+  readonly projection: readonly { readonly cores: number; readonly jobsPerSecondNeeded: number; readonly coordinatorShare: number; readonly projectedSpeedup: number }[];
+}
+
+/**
+ * The queue backend against worker threads at equal core counts, on a batch of `tasks` rollouts
+ * of `steps` steps (the demo's batches are 70–150 rollouts), and the job rate of one coordinator
+ * and Redis with trivial jobs, projected to 16, 256 and 1,024 cores.
+ */
+export async function benchQueue(scene: BenchScene, url: string, cores: number, tasks: number, steps: number, rounds: number, trivialJobs: number): Promise<QueueBench> {
+  const queue = `bench-${process.pid}`;
+  const batch = benchBatch(scene, tasks, steps);
+  const address = parseRedisUrl(url);
+  let kids = await startWorkers(url, queue, 1, cores);
+  const local = makeEvaluator(threads(cores));
+  const transport = new QueueTransport({ address, queue, redisTimeoutS: 60 });
+  const remote = new ScheduledEvaluator(transport, { taskTimeoutMs: Infinity });
+  let threadsMs: number;
+  let queueMs: number;
+  try {
+    await transport.connect(30);
+    [threadsMs, queueMs] = await timeInTurns(batch, [local, remote], 2, rounds);
+  } finally {
+    await Promise.all([local.close(), remote.close()]);
+    await stopWorkers(kids);
+  }
+  // Trivial jobs: one rollout of one step each, so the coordinator, Redis and BullMQ are the cost.
+  kids = await startWorkers(url, queue, Math.max(2, cores), 2);
+  const trivialTransport = new QueueTransport({ address, queue, redisTimeoutS: 60, jobSize: 1 });
+  const trivial = new ScheduledEvaluator(trivialTransport, { taskTimeoutMs: Infinity });
+  let trivialMs: number;
+  try {
+    await trivialTransport.connect(30);
+    const tiny = benchBatch(scene, trivialJobs, 1);
+    [trivialMs] = await timeInTurns(tiny, [trivial], 1, Math.max(2, Math.ceil(rounds / 2)));
+  } finally {
+    await trivial.close();
+    await stopWorkers(kids);
+  }
+  const trivialJobsPerSecond = trivialJobs / (trivialMs / 1000);
+  const rolloutMs = (threadsMs * cores) / tasks;
+  const jobSize = Math.min(16, Math.max(1, Math.ceil(tasks / (4 * cores))));
+  const ratio = threadsMs / queueMs;
+  const projection = [16, 256, 1024].map((c) => {
+    // Each core finishes a job every jobSize·rolloutMs; the coordinator turns around trivialJobsPerSecond at most.
+    const jobsPerSecondNeeded = c / ((jobSize * rolloutMs) / 1000);
+    const coordinatorShare = Math.min(1, trivialJobsPerSecond / jobsPerSecondNeeded);
+    return { cores: c, jobsPerSecondNeeded, coordinatorShare, projectedSpeedup: c * coordinatorShare * Math.min(1, ratio) };
+  });
+  return { cores, tasks, steps, threadsMs, queueMs, ratio, trivialJobsPerSecond, trivialJobs, rolloutMs, jobSize, projection };
+}
