@@ -48,12 +48,19 @@ describe('cairn run refuses bad input and writes nothing', () => {
       return [join(cwd, 'recipe.json'), '--out', out];
     }, /speed/));
 
-  it('a recipe naming a terrain family that does not exist', () =>
+  it('a recipe naming a terrain family that does not exist, naming the field and the path', () =>
     expectRefused('family', (cwd, out) => {
       const bad = JSON.parse(readFileSync(recipe, 'utf8')) as Record<string, unknown>;
       writeFileSync(join(cwd, 'recipe.json'), JSON.stringify({ ...bad, terrain: 'no-such-family.json' }));
       return [join(cwd, 'recipe.json'), '--out', out];
-    }, /no-such-family\.json/));
+    }, /^cairn: Recipe .*\/family\/recipe\.json, field `terrain`: Terrain family file not found or unreadable: .*\/family\/no-such-family\.json \(ENOENT\)\n$/));
+
+  it('a recipe naming a body plan that does not exist, naming the field and the path', () =>
+    expectRefused('body', (cwd, out) => {
+      const bad = JSON.parse(readFileSync(recipe, 'utf8')) as Record<string, unknown>;
+      writeFileSync(join(cwd, 'recipe.json'), JSON.stringify({ ...bad, body: 'bodies/none.json' }));
+      return [join(cwd, 'recipe.json'), '--out', out];
+    }, /^cairn: Recipe .*\/body\/recipe\.json, field `body`: Body plan file not found or unreadable: .*\/body\/bodies\/none\.json \(ENOENT\)\n$/));
 
   it('an --out directory that already holds something, which is left as it was', async () => {
     const out = join(root, 'taken');
