@@ -62,6 +62,16 @@ describe('cairn run refuses bad input and writes nothing', () => {
       return [join(cwd, 'recipe.json'), '--out', out];
     }, /^cairn: Recipe .*\/body\/recipe\.json, field `body`: Body plan file not found or unreadable: .*\/body\/bodies\/none\.json \(ENOENT\)\n$/));
 
+  it('a body plan with a segment 1e9 m from the torso, naming the file and the field', () =>
+    expectRefused('far-segment', (cwd, out) => {
+      const bad = JSON.parse(readFileSync(recipe, 'utf8')) as Record<string, string>;
+      const plan = JSON.parse(readFileSync(bad.body, 'utf8')) as { segments: { position: number[] }[] };
+      plan.segments[1].position = [1e9, 0];
+      writeFileSync(join(root, 'far.json'), JSON.stringify(plan)); // outside cwd, which must stay empty
+      writeFileSync(join(cwd, 'recipe.json'), JSON.stringify({ ...bad, body: join(root, 'far.json') }));
+      return [join(cwd, 'recipe.json'), '--out', out];
+    }, /field `body`: Body plan .*far\.json is not valid:\n {2}- .*far\.json: segments\[1\]\.position: expected within 10 m of the torso centre/));
+
   it('an --out directory that already holds something, which is left as it was', async () => {
     const out = join(root, 'taken');
     mkdirSync(out);
