@@ -7,5 +7,5 @@ export { toCsv, csvField } from './csv.js';
 export { curriculumSchema, curriculumSchemaText, curriculumProblems, assertCurriculum } from './schema.js';
 export { writeExport } from './write.js';
 export type { ExportResult } from './write.js';
-export { loadCurriculum, findCourse, courseOf, rolloutOptionsOf, bodyOf, loadSafetensorsWalker, walkerRefOf } from './read.js';
+export { loadCurriculum, findCourse, courseOf, rolloutOptionsOf, bodyOf, loadSafetensorsWalker, loadAnyWalker, walkerRefOf } from './read.js';
 export type { Curriculum, CurriculumEntry } from './read.js';

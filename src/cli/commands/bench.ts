@@ -1,11 +1,10 @@
-import { dirname, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
 import { benchCheckpoint, benchLearning, benchPool, benchRollouts, benchScaling, benchScene, benchSoak } from '../../bench/index.js';
 import { defaultWorkerCount, makeEvaluator, threads } from '../../pool/index.js';
 import { intIn } from '../options.js';
 import { InvalidArgumentError } from 'commander';
 import { Progress } from '../progress.js';
+import { PACKAGE_ROOT } from '../shipped.js';
 
 interface BenchOptions { json?: boolean; quick?: boolean; scaling?: number[]; quiet?: boolean; learn?: number; checkpoint?: string; soak?: number; workers: number }
 
@@ -18,7 +17,7 @@ function counts(v: string): number[] {
 const fmt = (x: number, d = 0): string => x.toLocaleString('en-US', { maximumFractionDigits: d, minimumFractionDigits: d });
 
 async function benchAction(o: BenchOptions): Promise<void> {
-  const root = resolve(dirname(fileURLToPath(import.meta.url)), '../../..');
+  const root = PACKAGE_ROOT;
   const progress = new Progress(o.quiet === true || o.json === true, 0);
   const scene = benchScene(root);
   const rounds = o.quick ? 3 : 15;

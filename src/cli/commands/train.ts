@@ -12,10 +12,11 @@ import { saveWalker, writeFileAtomic } from '../../store/index.js';
 import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
 import { hiddenSizes, intIn, numberIn, oneOf } from '../options.js';
 import { formatDuration, Progress } from '../progress.js';
+import { DEFAULT_BODY, DEFAULT_TERRAIN, shipped } from '../shipped.js';
 import { trainCurriculumAction, type CurriculumTrainOptions } from './train-curriculum.js';
 
 interface TrainOptions {
-  terrain: string; family?: string; body?: string; iterations: number; population: number; sigma: number;
+  terrain?: string; family?: string; body?: string; iterations: number; population: number; sigma: number;
   learningRate: number; hidden: number[]; activation: 'tanh' | 'relu' | 'linear'; seed: number; out?: string;
   workers: number; stopAt: number; steps: number; quiet?: boolean; json?: boolean; force?: boolean;
 }
@@ -27,9 +28,11 @@ function stem(path: string): string {
 async function trainAction(o: TrainOptions & Partial<CurriculumTrainOptions>): Promise<void> {
   if (o.curriculum !== undefined) return trainCurriculumAction(o as CurriculumTrainOptions);
   if (o.population % 2 !== 0) throw new UserError(`--population: expected an even number (mirrored pairs), found ${o.population}`);
-  const src = loadTerrainSource(o.terrain, o.family);
-  const plan = loadBodyPlan(o.body ?? 'envs/bodies/trestle.json');
-  const out = o.out ?? join('runs', `train-${stem(o.terrain)}-${plan.name}-s${o.seed}`);
+  const terrain = o.terrain ?? shipped(DEFAULT_TERRAIN);
+  const body = o.body ?? shipped(DEFAULT_BODY);
+  const src = loadTerrainSource(terrain, o.family);
+  const plan = loadBodyPlan(body);
+  const out = o.out ?? join('runs', `train-${stem(terrain)}-${plan.name}-s${o.seed}`);
   if (!o.force && existsSync(join(out, 'walker.json'))) throw new UserError(`${out} already holds a trained walker; choose another --out, remove it, or pass --force`);
   const course = buildCourse(src.genome, src.family);
   const shape: PolicyShape = { inputs: observationSize(plan), hidden: o.hidden, outputs: actionSize(plan), activation: o.activation };
@@ -49,8 +52,8 @@ async function trainAction(o: TrainOptions & Partial<CurriculumTrainOptions>): P
     progress.done();
     const seconds = (performance.now() - t0) / 1000;
     writeFileAtomic(join(out, 'train-log.jsonl'), `${lines.join('\n')}\n`);
-    const meta = { terrain: o.terrain, family: src.familyPath, genome: src.genome, iterations: result.log.length, progress: result.finalProgress, seed: o.seed, es };
-    saveWalker(join(out, 'walker.json'), { body: o.body ?? 'envs/bodies/trestle.json', bodyName: plan.name, shape, params: result.state.mean, meta });
+    const meta = { terrain, family: src.familyPath, genome: src.genome, iterations: result.log.length, progress: result.finalProgress, seed: o.seed, es };
+    saveWalker(join(out, 'walker.json'), { body, bodyName: plan.name, shape, params: result.state.mean, meta });
     const summary = { out, iterations: result.log.length, progress: result.finalProgress, rollouts: result.rollouts, seconds };
     if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
     else process.stdout.write(`trained ${result.log.length} iterations in ${formatDuration(seconds)}: progress ${result.finalProgress.toFixed(3)}; walker written to ${join(out, 'walker.json')}\n`);
@@ -63,9 +66,9 @@ export function registerTrain(program: Command): void {
   program
     .command('train')
     .description('train one walker by evolution strategies on one course (the direct path)')
-    .option('--terrain <file>', 'terrain family (its start genome) or genome file', 'envs/terrain/starter.json')
+    .option('--terrain <file>', `terrain family (its start genome) or genome file (default: cairn's ${DEFAULT_TERRAIN})`)
     .option('--family <file>', 'terrain family of a bare genome file')
-    .option('--body <file>', 'body plan (default trestle; with --curriculum the exported one)')
+    .option('--body <file>', `body plan (default: cairn's ${DEFAULT_BODY}; with --curriculum the exported one)`)
     .option('--iterations <n>', 'most ES iterations', intIn(1, 1_000_000), 100)
     .option('--population <n>', 'candidates per iteration (even: mirrored pairs)', intIn(2, 100_000), 32)
     .option('--sigma <x>', 'perturbation scale', numberIn(1e-6, 10), 0.05)
