@@ -2,10 +2,10 @@ import { dirname, join } from 'node:path';
 import { mkdirSync } from 'node:fs';
 import type { CourseRecord, IterationMetrics, RunState } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
-import { loadSafetensorsWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
+import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
 import { initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
-import { loadWalker, writeFileAtomic, type SkippedCheckpoint } from '../store/index.js';
+import { writeFileAtomic, type SkippedCheckpoint } from '../store/index.js';
 import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
 
@@ -54,7 +54,7 @@ export async function writeStrobe(run: Run, state: RunState, courseId: number, w
   let params: readonly number[] = (rec.solvedBy ?? rec.best).params;
   let shape = run.ctx.shape;
   if (walkerFile) {
-    const w = walkerFile.endsWith('.safetensors') ? loadSafetensorsWalker(walkerFile) : loadWalker(walkerFile);
+    const w = loadAnyWalker(walkerFile);
     params = Array.from(w.params);
     shape = w.shape;
   }
