@@ -12,7 +12,7 @@ import { saveWalker, writeFileAtomic } from '../../store/index.js';
 import { formatDuration, Progress } from '../progress.js';
 
 export interface CurriculumTrainOptions {
-  curriculum: string; body?: string; hidden: number[]; policy?: number[]; activation: 'tanh' | 'relu' | 'linear';
+  curriculum: string; body?: string; hidden: number[]; activation: 'tanh' | 'relu' | 'linear';
   population: number; sigma: number; learningRate: number; seed: number; workers: number; out?: string;
   stageIterations: number; advanceAt: number; compare?: boolean; quiet?: boolean; json?: boolean;
 }
@@ -27,10 +27,10 @@ export async function trainCurriculumAction(o: CurriculumTrainOptions): Promise<
   const cur = loadCurriculum(o.curriculum);
   if (cur.courses.length === 0) throw new UserError(`Curriculum ${o.curriculum} has no courses`);
   const plan = o.body ? loadBodyPlan(o.body) : bodyOf(cur);
-  const shape: PolicyShape = { inputs: observationSize(plan), hidden: o.policy ?? o.hidden, outputs: actionSize(plan), activation: o.activation };
+  const shape: PolicyShape = { inputs: observationSize(plan), hidden: o.hidden, outputs: actionSize(plan), activation: o.activation };
   const settings: CurriculumTrainSettings = {
     advanceAt: o.advanceAt, stageIterations: o.stageIterations, seed: o.seed, rollout: rolloutOptionsOf(cur),
-    es: { ...defaultEsConfig(), pairs: o.population / 2, sigma: o.sigma, learningRate: o.learningRate },
+    es: { ...defaultEsConfig(), population: o.population, sigma: o.sigma, learningRate: o.learningRate },
   };
   const stages = cur.courses.map((e) => ({ id: e.id, course: courseOf(e) }));
   const out = o.out ?? join('runs', `curriculum-train-${plan.name}-s${o.seed}`);

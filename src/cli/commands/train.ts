@@ -10,7 +10,7 @@ import type { PolicyShape } from '../../policy/index.js';
 import { defaultRolloutOptions } from '../../sim/index.js';
 import { saveWalker, writeFileAtomic } from '../../store/index.js';
 import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
-import { hiddenSizes, intIn, numberIn, oneOf } from '../options.js';
+import { evenIn, hiddenSizes, intIn, numberIn, oneOf } from '../options.js';
 import { formatDuration, Progress } from '../progress.js';
 import { DEFAULT_BODY, DEFAULT_TERRAIN, shipped } from '../shipped.js';
 import { trainCurriculumAction, type CurriculumTrainOptions } from './train-curriculum.js';
@@ -18,7 +18,7 @@ import { trainCurriculumAction, type CurriculumTrainOptions } from './train-curr
 interface TrainOptions {
   terrain?: string; family?: string; body?: string; iterations: number; population: number; sigma: number;
   learningRate: number; hidden: number[]; activation: 'tanh' | 'relu' | 'linear'; seed: number; out?: string;
-  workers: number; stopAt: number; steps: number; quiet?: boolean; json?: boolean; force?: boolean;
+  workers: number; stopAt?: number; steps: number; quiet?: boolean; json?: boolean; force?: boolean;
 }
 
 function stem(path: string): string {
@@ -27,7 +27,6 @@ function stem(path: string): string {
 
 async function trainAction(o: TrainOptions & Partial<CurriculumTrainOptions>): Promise<void> {
   if (o.curriculum !== undefined) return trainCurriculumAction(o as CurriculumTrainOptions);
-  if (o.population % 2 !== 0) throw new UserError(`--population: expected an even number (mirrored pairs), found ${o.population}`);
   const terrain = o.terrain ?? shipped(DEFAULT_TERRAIN);
   const body = o.body ?? shipped(DEFAULT_BODY);
   const src = loadTerrainSource(terrain, o.family);
@@ -36,7 +35,7 @@ async function trainAction(o: TrainOptions & Partial<CurriculumTrainOptions>): P
   if (!o.force && existsSync(join(out, 'walker.json'))) throw new UserError(`${out} already holds a trained walker; choose another --out, remove it, or pass --force`);
   const course = buildCourse(src.genome, src.family);
   const shape: PolicyShape = { inputs: observationSize(plan), hidden: o.hidden, outputs: actionSize(plan), activation: o.activation };
-  const es = { ...defaultEsConfig(), pairs: o.population / 2, sigma: o.sigma, learningRate: o.learningRate };
+  const es = { ...defaultEsConfig(), population: o.population, sigma: o.sigma, learningRate: o.learningRate };
   const settings = { iterations: o.iterations, stopAtProgress: o.stopAt, es, rollout: { ...defaultRolloutOptions(), maxSteps: o.steps }, seed: o.seed };
   mkdirSync(out, { recursive: true });
   const progress = new Progress(o.quiet === true);
@@ -70,18 +69,17 @@ export function registerTrain(program: Command): void {
     .option('--family <file>', 'terrain family of a bare genome file')
     .option('--body <file>', `body plan (default: cairn's ${DEFAULT_BODY}; with --curriculum the exported one)`)
     .option('--iterations <n>', 'most ES iterations', intIn(1, 1_000_000), 100)
-    .option('--population <n>', 'candidates per iteration (even: mirrored pairs)', intIn(2, 100_000), 32)
+    .option('--population <n>', 'candidates per ES iteration, even (as es.population in a recipe)', evenIn(2, 20_000), 32)
     .option('--sigma <x>', 'perturbation scale', numberIn(1e-6, 10), 0.05)
     .option('--learning-rate <x>', 'Adam step size', numberIn(1e-6, 10), 0.02)
-    .option('--hidden <sizes>', 'hidden layer sizes, e.g. 32,32 (none = linear)', hiddenSizes, [])
+    .option('--hidden <sizes>', 'hidden layer sizes of the walker, e.g. 32,32 (none = linear; also with --curriculum)', hiddenSizes, [])
     .option('--activation <name>', 'hidden activation', oneOf(['tanh', 'relu', 'linear'] as const), 'tanh')
     .option('--steps <n>', 'step budget of one rollout', intIn(1, 10_000_000), 3000)
-    .option('--stop-at <progress>', 'stop once the walker reaches this progress (above 1 = never)', numberIn(0, 2), 2)
+    .option('--stop-at <progress>', 'stop once the walker reaches this progress (default: run every iteration)', numberIn(0, 1))
     .option('--seed <n>', 'seed', intIn(0, 2 ** 31 - 1), 1)
     .option('--workers <n>', 'worker threads (0 = this thread)', intIn(0, 1024), defaultWorkerCount())
     .option('--out <dir>', 'output directory (default runs/train-<terrain>-<body>-s<seed>)')
     .option('--curriculum <file>', 'train through an exported curriculum.json, course by course')
-    .option('--policy <sizes>', 'with --curriculum: hidden layer sizes of the fresh walker (like --hidden)', hiddenSizes)
     .option('--stage-iterations <n>', 'with --curriculum: most ES iterations per course', intIn(1, 1_000_000), 40)
     .option('--advance-at <progress>', 'with --curriculum: move on once progress reaches this', numberIn(0, 1), 0.9)
     .option('--compare', 'with --curriculum: also train the direct path on the final course with the same rollout budget')
