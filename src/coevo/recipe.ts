@@ -71,7 +71,7 @@ export const recipeSchema = z
         /** Minimal criterion band on the best current walker's progress. */
         low: fraction.default(0.15),
         high: fraction.default(0.9),
-        maxAdmitted: int(1, 1000).default(2),
+        admitPerRound: int(1, 1000).default(2),
         /** Candidates whose novelty is below this are refused as not novel. */
         minNovelty: num(0, 1e6).default(0),
       })

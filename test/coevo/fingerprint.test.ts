@@ -20,7 +20,7 @@ const recipe = tinyRecipe({
   es: { population: 4, sigma: 0.5, learningRate: 0.2 },
   episode: { maxSteps: 150, trainingPush: 0.2 },
   population: { maxActive: 2 },
-  admission: { interval: 2, reproduceAbove: 0, candidates: 3, low: 0, high: 1, maxAdmitted: 2 },
+  admission: { interval: 2, reproduceAbove: 0, candidates: 3, low: 0, high: 1, admitPerRound: 2 },
   transfer: { interval: 3, fineTuneTop: 1 },
   solve: { threshold: 0.01, checks: 2 },
 });
