@@ -4,6 +4,7 @@ export { paramsToTensors, tensorsToParams } from './walker-tensors.js';
 export { buildCurriculum, CURRICULUM_FORMAT, CURRICULUM_VERSION, SCHEMA_FILE } from './curriculum.js';
 export type { Order, Only, WalkerBlob } from './curriculum.js';
 export { toCsv, csvField } from './csv.js';
+export { snakeCase } from './summary.js';
 export { curriculumSchema, curriculumSchemaText, curriculumProblems, assertCurriculum } from './schema.js';
 export { writeExport } from './write.js';
 export type { ExportResult } from './write.js';

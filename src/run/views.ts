@@ -10,7 +10,12 @@ import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
 
 /** What `status` shows: the metrics line's figures plus identity and budget, and the active pairs. */
-export interface RunStatus extends IterationMetrics {
+export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved'> {
+  /**
+   * Difficulty of the hardest solved course, or null while no course beyond the start course is
+   * solved (the start course is flat ground, difficulty 0, so 0 would not tell the two apart).
+   */
+  readonly hardestSolved: number | null;
   readonly fingerprint: string;
   readonly targetIterations: number;
   readonly skippedCheckpoints: number;
@@ -25,7 +30,9 @@ export interface PairRow {
 }
 
 export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCheckpoint[]): { status: RunStatus; pairs: PairRow[] } {
-  const status = { ...run.metrics(state), fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length };
+  const metrics = run.metrics(state);
+  const beyondStart = state.courses.some((c) => c.solvedAt !== null && c.parent !== null);
+  const status = { ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length };
   const pairs = state.pairs.map((p) => {
     const course = state.courses.find((r) => r.id === p.courseId)!;
     return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: difficulty(course.genome, run.inputs.family) };

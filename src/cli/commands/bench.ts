@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { plural } from '../../core/index.js';
 import { benchCheckpoint, benchLearning, benchPool, benchRollouts, benchScaling, benchScene, benchSoak } from '../../bench/index.js';
 import { defaultWorkerCount, makeEvaluator, threads } from '../../pool/index.js';
 import { intIn } from '../options.js';
@@ -66,7 +67,7 @@ async function extras(o: BenchOptions, root: string, progress: Progress): Promis
   const evaluator = makeEvaluator(threads(o.workers));
   try {
     if (o.learn) {
-      progress.update(`learning to walk, ${o.learn} seeds...`, true);
+      progress.update(`learning to walk, ${plural(o.learn, 'seed')}...`, true);
       const l = await benchLearning(root, Array.from({ length: o.learn }, (_, i) => i + 1), 0.9, 200, evaluator);
       json.learning = l;
       rows.push(['learn to walk (progress 0.9), iterations', `median ${l.medianIterations}, worst ${l.worstIterations} (${l.runs.map((x) => x.iterations).join(', ')})`, '']);
@@ -79,7 +80,7 @@ async function extras(o: BenchOptions, root: string, progress: Progress): Promis
       rows.push(['checkpoint write', `${fmt(c.writeMs, 1)} ms for ${fmt(c.checkpointBytes / 1024)} KiB; iteration ${fmt(c.iterationMs)} ms; share ${fmt(100 * c.share, 2)}%`, 'target < 2%']);
     }
     if (o.soak) {
-      progress.update(`memory over ${o.soak} iterations of runs/smoke.json...`, true);
+      progress.update(`memory over ${plural(o.soak, 'iteration')} of runs/smoke.json...`, true);
       const s = await benchSoak(`${root}/runs/smoke.json`, evaluator, o.soak);
       json.soak = { iterations: s.iterations, growthAfterWarmupMiB: s.growthAfterWarmupMiB, rssMiB: s.rssMiB.map((x) => Math.round(x * 10) / 10) };
       const q = (f: number): string => fmt(s.rssMiB[Math.min(s.rssMiB.length - 1, Math.floor(f * s.rssMiB.length))], 1);

@@ -4,7 +4,8 @@ import { resumeRun, startRun, type Run, type SessionHooks, type SessionResult } 
 import { backendOf, workersOption } from '../backend.js';
 import { EXIT } from '../fail.js';
 import { intIn, numberIn } from '../options.js';
-import { formatDuration, plural, Progress } from '../progress.js';
+import { plural } from '../../core/index.js';
+import { formatDuration, Progress } from '../progress.js';
 import { installStopHandlers } from '../signals.js';
 
 interface LoopOptions { workers: number; quiet?: boolean }

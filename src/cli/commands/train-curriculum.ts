@@ -1,7 +1,7 @@
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { actionSize, loadBodyPlan, observationSize } from '../../body/index.js';
-import { UserError } from '../../core/index.js';
+import { plural, UserError } from '../../core/index.js';
 import { trainCurriculum, trainDirect, type CurriculumTrainSettings, type PathReport } from '../../coevo/index.js';
 import { defaultEsConfig } from '../../evolve/index.js';
 import { bodyOf, courseOf, loadCurriculum } from '../../export/index.js';
@@ -19,7 +19,7 @@ export interface CurriculumTrainOptions {
 
 function describe(name: string, r: PathReport): string {
   const stages = r.stages.map((s) => `course ${s.courseId}: ${s.progress.toFixed(3)} in ${s.iterations} it${s.advanced ? '' : ' (budget ran out)'}`);
-  return `${name}: final-course progress ${r.finalProgress.toFixed(3)}, ${r.rollouts} rollouts\n  ${stages.join('\n  ')}`;
+  return `${name}: final-course progress ${r.finalProgress.toFixed(3)}, ${plural(r.rollouts, 'rollout')}\n  ${stages.join('\n  ')}`;
 }
 
 /** `cairn train --curriculum`: a fresh walker through the exported courses in order, optionally against the direct path. */
@@ -40,10 +40,10 @@ export async function trainCurriculumAction(o: CurriculumTrainOptions): Promise<
   const evaluator = makeEvaluator(threads(o.workers));
   try {
     const curriculum = await trainCurriculum(stages, plan, shape, settings, evaluator, (s) =>
-      progress.update(`curriculum: course ${s.courseId} progress ${s.progress.toFixed(3)} after ${s.iterations} iterations (${formatDuration((performance.now() - t0) / 1000)})`, true));
+      progress.update(`curriculum: course ${s.courseId} progress ${s.progress.toFixed(3)} after ${plural(s.iterations, 'iteration')} (${formatDuration((performance.now() - t0) / 1000)})`, true));
     let direct: PathReport | null = null;
     if (o.compare) {
-      progress.update(`direct path: ${curriculum.rollouts} rollouts on course ${stages[stages.length - 1].id}...`, true);
+      progress.update(`direct path: ${plural(curriculum.rollouts, 'rollout')} on course ${stages[stages.length - 1].id}...`, true);
       direct = await trainDirect(stages[stages.length - 1], plan, shape, settings, curriculum.rollouts, evaluator);
     }
     progress.done();

@@ -2,7 +2,7 @@ import { existsSync, mkdirSync } from 'node:fs';
 import { basename, join } from 'node:path';
 import type { Command } from 'commander';
 import { actionSize, loadBodyPlan, observationSize } from '../../body/index.js';
-import { UserError } from '../../core/index.js';
+import { plural, UserError } from '../../core/index.js';
 import { freshEsState, trainWalker } from '../../coevo/index.js';
 import { defaultEsConfig } from '../../evolve/index.js';
 import { defaultWorkerCount, makeEvaluator, threads } from '../../pool/index.js';
@@ -55,7 +55,7 @@ async function trainAction(o: TrainOptions & Partial<CurriculumTrainOptions>): P
     saveWalker(join(out, 'walker.json'), { body, bodyName: plan.name, shape, params: result.state.mean, meta });
     const summary = { out, iterations: result.log.length, progress: result.finalProgress, rollouts: result.rollouts, seconds };
     if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
-    else process.stdout.write(`trained ${result.log.length} iterations in ${formatDuration(seconds)}: progress ${result.finalProgress.toFixed(3)}; walker written to ${join(out, 'walker.json')}\n`);
+    else process.stdout.write(`trained ${plural(result.log.length, 'iteration')} in ${formatDuration(seconds)}: progress ${result.finalProgress.toFixed(3)}; walker written to ${join(out, 'walker.json')}\n`);
   } finally {
     await evaluator.close();
   }
