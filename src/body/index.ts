@@ -1,5 +1,5 @@
 export type { ActionMode, SegmentDef, JointDef, RayFanDef, BodyPlan } from './plan.js';
-export { parseBodyPlan, loadBodyPlan, footNames } from './plan.js';
+export { parseBodyPlan, loadBodyPlan, footNames, MAX_REACH } from './plan.js';
 export { CourseRays } from './rays.js';
 export type { Walker } from './walker.js';
 export { buildWalker, trackContacts, spawnHeight } from './walker.js';

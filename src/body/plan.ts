@@ -59,7 +59,20 @@ export interface BodyPlan {
   readonly rays: RayFanDef;
 }
 
+/**
+ * Farthest a segment centre or a joint anchor may lie from the torso centre at spawn, m. A
+ * walker is a body of a few metres; ten leaves room for long-limbed designs while refusing
+ * typing slips such as 1e9, which planck would otherwise simulate as a part out of sight.
+ */
+export const MAX_REACH = 10;
+
 const pair = z.tuple([z.number(), z.number()]);
+
+/** A problem when `point` (m, relative to the torso centre) lies beyond {@link MAX_REACH}. */
+function reachProblem(point: readonly [number, number], field: string): string[] {
+  const d = Math.hypot(point[0], point[1]);
+  return d <= MAX_REACH ? [] : [`${field}: expected within ${MAX_REACH} m of the torso centre, found [${point[0]}, ${point[1]}] (${Number(d.toPrecision(4))} m away)`];
+}
 const planSchema = z
   .object({
     name: z.string().min(1),
@@ -118,6 +131,7 @@ function crossProblems(plan: BodyPlan, where: string): string[] {
     names.set(s.name, i);
     if (s.shape === 'box' && !s.size) p.push(`${where}: segments[${i}].size: a box needs size [width, height] in metres`);
     if (s.shape === 'circle' && s.radius === undefined) p.push(`${where}: segments[${i}].radius: a circle needs a radius in metres`);
+    p.push(...reachProblem(s.position, `${where}: segments[${i}].position`));
   });
   if (plan.segments[0]?.foot) p.push(`${where}: segments[0].foot: the first segment is the torso and cannot be a foot`);
   const children = new Set<string>();
@@ -129,6 +143,7 @@ function crossProblems(plan: BodyPlan, where: string): string[] {
     if (children.has(j.child)) p.push(`${where}: joints[${i}].child: "${j.child}" already hangs from another joint`);
     children.add(j.child);
     if (j.lower >= j.upper) p.push(`${where}: joints[${i}]: lower (${j.lower}) must be below upper (${j.upper})`);
+    p.push(...reachProblem(j.anchor, `${where}: joints[${i}].anchor`));
   });
   plan.segments.forEach((s, i) => {
     if (i > 0 && !children.has(s.name)) p.push(`${where}: segments[${i}]: "${s.name}" is not attached to anything by a joint`);

@@ -10,6 +10,16 @@ export function intIn(min: number, max: number): (v: string) => number {
   };
 }
 
+/** Commander parser for an even integer option within [min, max] (an ES population: mirrored pairs). */
+export function evenIn(min: number, max: number): (v: string) => number {
+  const int = intIn(min, max);
+  return (v: string) => {
+    const n = int(v);
+    if (n % 2 !== 0) throw new InvalidArgumentError(`expected an even number (candidates come in mirrored pairs), found ${n}`);
+    return n;
+  };
+}
+
 /** Commander parser for a number option within [min, max]. */
 export function numberIn(min: number, max: number): (v: string) => number {
   return (v: string) => {

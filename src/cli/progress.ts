@@ -51,7 +51,3 @@ export function formatDuration(seconds: number): string {
   return `${Math.floor(m / 60)} h ${String(m % 60).padStart(2, '0')} m`;
 }
 
-/** "1 course", "3 courses". */
-export function plural(n: number, word: string, many = `${word}s`): string {
-  return `${n} ${n === 1 ? word : many}`;
-}

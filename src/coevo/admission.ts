@@ -82,11 +82,11 @@ export async function admissionPhase(ctx: RunContext, draft: Draft, evaluator: E
 /**
  * Greedy novelty ranking: repeatedly admit the most novel survivor (ties: earliest proposed),
  * counting each admitted one as a reference for the rest, so two near-identical candidates are
- * not both admitted. Survivors below minNovelty or beyond maxAdmitted are 'not-novel'.
+ * not both admitted. Survivors below minNovelty or beyond admitPerRound are 'not-novel'.
  */
 function admitByNovelty(ctx: RunContext, draft: Draft, survivors: Candidate[], refs: number[][]): void {
   const { k } = ctx.recipe.novelty;
-  const { maxAdmitted, minNovelty } = ctx.recipe.admission;
+  const { admitPerRound, minNovelty } = ctx.recipe.admission;
   const pool = [...survivors];
   const admitted: Candidate[] = [];
   while (pool.length > 0) {
@@ -94,7 +94,7 @@ function admitByNovelty(ctx: RunContext, draft: Draft, survivors: Candidate[], r
     let best = 0;
     for (let i = 1; i < pool.length; i++) if (pool[i].novelty! > pool[best].novelty!) best = i;
     const c = pool[best];
-    if (admitted.length >= maxAdmitted || c.novelty! < minNovelty) break;
+    if (admitted.length >= admitPerRound || c.novelty! < minNovelty) break;
     pool.splice(best, 1);
     c.outcome = 'admitted';
     admitted.push(c);

@@ -60,7 +60,7 @@ export async function trainCurriculum(
 export async function trainDirect(
   target: StageCourse, plan: BodyPlan, shape: PolicyShape, s: CurriculumTrainSettings, budget: number, evaluator: Evaluator,
 ): Promise<PathReport> {
-  const iterations = Math.max(1, Math.floor((budget - 1) / (2 * s.es.pairs + 1)));
+  const iterations = Math.max(1, Math.floor((budget - 1) / (s.es.population + 1)));
   const out = await trainWalker(target.course, plan, shape, freshEsState(shape, s.seed), { iterations, stopAtProgress: s.advanceAt, es: s.es, rollout: s.rollout, seed: s.seed }, evaluator);
   const stage = { courseId: target.id, iterations: out.log.length, progress: out.finalProgress, rollouts: out.rollouts, advanced: out.finalProgress >= s.advanceAt };
   return { stages: [stage], finalProgress: out.finalProgress, rollouts: out.rollouts, params: out.state.mean };

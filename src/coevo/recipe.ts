@@ -29,7 +29,8 @@ export const recipeSchema = z
       .prefault({}),
     es: z
       .object({
-        pairs: int(1, 10_000).default(16),
+        /** Candidates per ES step: population/2 perturbations, each tried with both signs. */
+        population: int(2, 20_000).refine((n) => n % 2 === 0, 'expected an even number (candidates come in mirrored pairs)').default(32),
         sigma: num(1e-6, 10).default(0.05),
         learningRate: num(1e-6, 10).default(0.02),
         beta1: z.number().min(0).lt(1).default(0.9),
@@ -70,7 +71,7 @@ export const recipeSchema = z
         /** Minimal criterion band on the best current walker's progress. */
         low: fraction.default(0.15),
         high: fraction.default(0.9),
-        maxAdmitted: int(1, 1000).default(2),
+        admitPerRound: int(1, 1000).default(2),
         /** Candidates whose novelty is below this are refused as not novel. */
         minNovelty: num(0, 1e6).default(0),
       })

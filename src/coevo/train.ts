@@ -11,8 +11,8 @@ import { finishEsStep, planEsStep } from './es-batch.js';
 export interface TrainSettings {
   /** Most ES iterations to run. */
   readonly iterations: number;
-  /** Stop as soon as the mean walker's progress reaches this (1.01 = never stop early). */
-  readonly stopAtProgress: number;
+  /** Stop as soon as the mean walker's progress reaches this; absent = run every iteration. */
+  readonly stopAtProgress?: number;
   readonly es: EsConfig;
   readonly rollout: RolloutOptions;
   /** Run seed: fixes the initial weights and every perturbation. */
@@ -48,7 +48,7 @@ export function freshEsState(shape: PolicyShape, seed: number, initial?: ArrayLi
 
 /**
  * Trains one walker by evolution strategies on one course: each iteration evaluates the mean
- * and 2·pairs mirrored candidates in one evaluator batch, then updates the mean.
+ * and the population's mirrored candidates in one evaluator batch, then updates the mean.
  */
 export async function trainWalker(
   course: Course, plan: BodyPlan, shape: PolicyShape, start: EsState, settings: TrainSettings,
@@ -74,7 +74,7 @@ export async function trainWalker(
     };
     log.push(line);
     onIteration?.(line);
-    if (out.meanResult.progress >= settings.stopAtProgress) break;
+    if (settings.stopAtProgress !== undefined && out.meanResult.progress >= settings.stopAtProgress) break;
     state = out.state;
   }
   const [final] = await evaluator.evaluate(sceneBatch(course, plan, shape, settings.rollout, state.mean));

@@ -5,6 +5,7 @@ export { canonicalJson, sha256, hashValue } from './canonical.js';
 export { dot, norm, distance, clamp, median } from './vec.js';
 export type { Vec } from './vec.js';
 export { readJsonFile } from './json.js';
+export { plural } from './words.js';
 export { parseWith, formatPath } from './schema.js';
 export { NOISE_LABEL, perturbation, candidate } from './noise.js';
 export { writerVersions, versionDifferences } from './versions.js';

@@ -5,8 +5,11 @@ import { assertNoProblems } from '../core/index.js';
  * Plain data, fixed for a run (it lives in the recipe, not in the state).
  */
 export interface EsConfig {
-  /** Antithetic (mirrored) pairs per iteration, integer ≥ 1; the population is 2·pairs. */
-  readonly pairs: number;
+  /**
+   * Candidates evaluated per iteration, an even integer ≥ 2: population/2 perturbations, each
+   * tried with both signs (mirrored sampling).
+   */
+  readonly population: number;
   /** Perturbation scale σ, > 0, in parameter units (the noise is σ·ε with ε ~ N(0, I)). */
   readonly sigma: number;
   /** Adam step size α, > 0, in parameter units per iteration (roughly the largest change of one parameter). */
@@ -26,22 +29,22 @@ export interface EsConfig {
 }
 
 /**
- * Defaults: population 32 (16 pairs), σ 0.05, Adam 0.02 with Kingma & Ba's suggested
+ * Defaults: population 32 (16 mirrored perturbations), σ 0.05, Adam 0.02 with Kingma & Ba's suggested
  * β₁ 0.9, β₂ 0.999, ε 1e-8, and an L2 coefficient of 0.005 (the value recalled, from memory,
  * from Salimans et al. 2017's experiments). Population, σ and step size are the settings that
  * taught a four-legged walker on a flat course within tens of iterations in prototypes.
  */
 export function defaultEsConfig(): EsConfig {
-  return { pairs: 16, sigma: 0.05, learningRate: 0.02, beta1: 0.9, beta2: 0.999, epsilon: 1e-8, weightDecay: 0.005 };
+  return { population: 32, sigma: 0.05, learningRate: 0.02, beta1: 0.9, beta2: 0.999, epsilon: 1e-8, weightDecay: 0.005 };
 }
 
-const FIELDS: readonly (keyof EsConfig)[] = ['pairs', 'sigma', 'learningRate', 'beta1', 'beta2', 'epsilon', 'weightDecay'];
+const FIELDS: readonly (keyof EsConfig)[] = ['population', 'sigma', 'learningRate', 'beta1', 'beta2', 'epsilon', 'weightDecay'];
 
 function fieldProblem(key: keyof EsConfig, x: unknown): string | null {
   if (typeof x !== 'number' || !Number.isFinite(x)) return 'expected a finite number';
   switch (key) {
-    case 'pairs':
-      return Number.isInteger(x) && x >= 1 ? null : 'expected an integer ≥ 1';
+    case 'population':
+      return Number.isInteger(x) && x >= 2 && x % 2 === 0 ? null : 'expected an even integer ≥ 2 (candidates come in mirrored pairs)';
     case 'beta1':
     case 'beta2':
       return x >= 0 && x < 1 ? null : 'expected a number in [0, 1)';
@@ -77,4 +80,9 @@ export function parseEsConfig(json: unknown, where: string): EsConfig {
   const base = typeof json === 'object' && json !== null && !Array.isArray(json) ? { ...defaultEsConfig(), ...json } : json;
   assertNoProblems(`evolution-strategy settings at ${where}`, validateEsConfig(base, where));
   return base as EsConfig;
+}
+
+/** Mirrored perturbations per iteration: each is tried as mean + σε and mean − σε. */
+export function mirroredCount(config: EsConfig): number {
+  return config.population / 2;
 }

@@ -8,7 +8,7 @@
  */
 import { restoreStream, type Stream, type StreamState } from '../core/index.js';
 import { adamAscent } from './adam.js';
-import type { EsConfig } from './config.js';
+import { mirroredCount, type EsConfig } from './config.js';
 import { perturbation } from './noise.js';
 import { centredRanks } from './ranks.js';
 
@@ -42,14 +42,14 @@ export function initEsState(mean: ArrayLike<number>, noiseStream: Stream): EsSta
 }
 
 /**
- * Draws one uint32 seed per pair from the state's stream. Pair i is evaluated at
+ * Draws one uint32 seed per mirrored perturbation (population/2) from the state's stream. Pair i is evaluated at
  * `candidate(state.mean, seeds[i], +1, σ)` and `candidate(state.mean, seeds[i], -1, σ)`.
  * Returns the seeds and the state with its stream advanced (pass that state to `tell`).
  */
 export function ask(state: EsState, config: EsConfig): { seeds: number[]; state: EsState } {
   const s = restoreStream(state.stream);
   const seeds: number[] = [];
-  for (let i = 0; i < config.pairs; i++) seeds.push(s.uint32());
+  for (let i = 0; i < mirroredCount(config); i++) seeds.push(s.uint32());
   return { seeds, state: { ...state, stream: s.state() } };
 }
 
@@ -89,8 +89,8 @@ export function tell(
   state: EsState, config: EsConfig, seeds: readonly number[],
   fitnessPlus: readonly number[], fitnessMinus: readonly number[],
 ): EsState {
-  if (seeds.length !== config.pairs) {
-    throw new RangeError(`tell: expected ${config.pairs} seeds (config.pairs), got ${seeds.length}`);
+  if (seeds.length !== mirroredCount(config)) {
+    throw new RangeError(`tell: expected ${mirroredCount(config)} seeds (half of config.population), got ${seeds.length}`);
   }
   const dim = state.mean.length;
   const d = estimateGradient(seeds, fitnessPlus, fitnessMinus, config.sigma, dim);

@@ -1,4 +1,4 @@
-export { defaultEsConfig, validateEsConfig, parseEsConfig } from './config.js';
+export { defaultEsConfig, validateEsConfig, parseEsConfig, mirroredCount } from './config.js';
 export type { EsConfig } from './config.js';
 export { centredRanks } from './ranks.js';
 export { NOISE_LABEL, perturbation, candidate } from './noise.js';

@@ -4,6 +4,7 @@ import { loadBodyPlan, type BodyPlan } from '../body/index.js';
 import { readJsonFile, sha256, UserError } from '../core/index.js';
 import type { PolicyShape } from '../policy/index.js';
 import { defaultRolloutOptions, type RolloutOptions } from '../sim/index.js';
+import { loadWalker } from '../store/index.js';
 import type { Course, TerrainGenome } from '../terrain/index.js';
 import { decodeSafetensors } from './safetensors.js';
 import { assertCurriculum } from './schema.js';
@@ -72,6 +73,19 @@ export function loadSafetensorsWalker(path: string, expected?: string): { shape:
   if (expected && sha256(bytes) !== expected) throw new UserError(`Walker file ${path}: SHA-256 mismatch: the curriculum says ${expected}, the file is ${sha256(bytes)}`);
   const { tensors, metadata } = decodeSafetensors(bytes, path);
   return { ...tensorsToParams(tensors, metadata, path), metadata };
+}
+
+/**
+ * A walker from either kind of file: an exported `.safetensors` walker or cairn's walker JSON
+ * (what `train` writes). `bodyName` is the body plan it was made for, where the file says.
+ */
+export function loadAnyWalker(path: string): { shape: PolicyShape; params: ArrayLike<number>; bodyName: string | undefined } {
+  if (path.endsWith('.safetensors')) {
+    const w = loadSafetensorsWalker(path);
+    return { shape: w.shape, params: w.params, bodyName: w.metadata.bodyName };
+  }
+  const w = loadWalker(path);
+  return { shape: w.shape, params: w.params, bodyName: w.bodyName };
 }
 
 /** The walker a curriculum names for a course: the one that solved it, else the best one. */

@@ -1,17 +1,15 @@
-import { readFileSync } from 'node:fs';
-import { fileURLToPath } from 'node:url';
 import Ajv2020Module from 'ajv/dist/2020.js';
 import { UserError } from '../core/index.js';
+import { CURRICULUM_SCHEMA } from './schema/curriculum-schema.js';
 
-/** Path of the curriculum JSON Schema (draft 2020-12) that ships with cairn. */
-export function curriculumSchemaPath(): string {
-  const here = fileURLToPath(import.meta.url);
-  // From dist/export/ or src/export/, the schema lives in src/export/schema/.
-  return fileURLToPath(new URL(here.endsWith('.ts') ? './schema/curriculum.schema.json' : '../../src/export/schema/curriculum.schema.json', import.meta.url));
+/** A fresh copy of the curriculum JSON Schema (draft 2020-12) that ships with cairn. */
+export function curriculumSchema(): Record<string, unknown> {
+  return structuredClone(CURRICULUM_SCHEMA) as Record<string, unknown>;
 }
 
-export function curriculumSchema(): Record<string, unknown> {
-  return JSON.parse(readFileSync(curriculumSchemaPath(), 'utf8')) as Record<string, unknown>;
+/** The schema as the file an export writes beside its curriculum. */
+export function curriculumSchemaText(): string {
+  return `${JSON.stringify(CURRICULUM_SCHEMA, null, 2)}\n`;
 }
 
 type Validate = ((data: unknown) => boolean) & { errors?: { instancePath: string; message?: string }[] | null };

@@ -6,9 +6,14 @@ interface Entry {
   admission: { bestProgress: number; novelty: number };
 }
 
+/** `gapWidth` → `gap_width`: every summary.csv header is in snake case, descriptor names included. */
+export function snakeCase(name: string): string {
+  return name.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
+}
+
 /** summary.csv: one row per course with the headline figures, in curriculum order. */
 export function summaryCsv(courses: readonly Entry[], descriptorNames: readonly string[]): string {
-  const header = ['order', 'course_id', 'parent_id', 'admitted_at', 'status', 'difficulty', 'features', 'kinds', ...descriptorNames, 'admission_best_progress', 'admission_novelty', 'best_progress', 'best_walker', 'solved_at'];
+  const header = ['order', 'course_id', 'parent_id', 'admitted_at', 'status', 'difficulty', 'features', 'kinds', ...descriptorNames.map(snakeCase), 'admission_best_progress', 'admission_novelty', 'best_progress', 'best_walker', 'solved_at'];
   const rows = courses.map((c, i) => [
     i + 1, c.id, c.parent, c.admittedAt, c.status, c.difficulty, c.genome.features.length,
     c.genome.features.map((f) => f.kind).join(' '), ...c.descriptor,

@@ -1,10 +1,10 @@
-import { copyFileSync, existsSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import type { RunContext, RunState } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
 import { syncDir, WriteError } from '../store/index.js';
 import { buildCurriculum, SCHEMA_FILE, type Only, type Order } from './curriculum.js';
-import { assertCurriculum, curriculumSchemaPath } from './schema.js';
+import { assertCurriculum, curriculumSchemaText } from './schema.js';
 import { summaryCsv } from './summary.js';
 
 /** What an export directory holds: an existing `out` with anything else in it is not replaced. */
@@ -21,6 +21,22 @@ function assertReplaceable(target: string): void {
   const foreign = readdirSync(target).filter((n) => !EXPORT_ENTRIES.has(n));
   if (foreign.length > 0) {
     throw new UserError(`Export target ${target} is not an earlier export (it holds ${foreign.slice(0, 3).join(', ')}${foreign.length > 3 ? ', ...' : ''}); choose another --out or remove it`);
+  }
+}
+
+/**
+ * Refuses an `out` below an existing file: the nearest existing ancestor must be a directory,
+ * or creating the target's parents would fail half-way with a bare ENOTDIR.
+ */
+function assertParentIsDirectory(target: string): void {
+  for (let dir = dirname(target); ; dir = dirname(dir)) {
+    let st;
+    try { st = statSync(dir, { throwIfNoEntry: false }); } catch (e) {
+      if ((e as NodeJS.ErrnoException).code !== 'ENOTDIR') throw e; // a file further up: look there
+    }
+    if (st?.isDirectory()) return;
+    if (st) throw new UserError(`Export target ${target} cannot be created: ${dir} is a file, not a directory; choose another --out`);
+    if (dirname(dir) === dir) return;
   }
 }
 
@@ -41,6 +57,7 @@ export function writeExport(ctx: RunContext, state: RunState, out: string, order
   const { curriculum, walkers } = buildCurriculum(ctx, state, order, only);
   assertCurriculum(curriculum, 'the export');
   const target = resolve(out);
+  assertParentIsDirectory(target);
   assertReplaceable(target);
   mkdirSync(dirname(target), { recursive: true });
   const tmp = join(dirname(target), `.tmp-${basename(target)}-${process.pid}`);
@@ -48,7 +65,7 @@ export function writeExport(ctx: RunContext, state: RunState, out: string, order
   try {
     mkdirSync(join(tmp, 'walkers'), { recursive: true });
     writeFileSync(join(tmp, 'curriculum.json'), `${JSON.stringify(curriculum, null, 1)}\n`);
-    copyFileSync(curriculumSchemaPath(), join(tmp, SCHEMA_FILE));
+    writeFileSync(join(tmp, SCHEMA_FILE), curriculumSchemaText());
     writeFileSync(join(tmp, 'summary.csv'), summaryCsv(curriculum.courses as Parameters<typeof summaryCsv>[0], curriculum.descriptorNames as string[]));
     writeFileSync(join(tmp, 'body.json'), `${JSON.stringify(ctx.plan, null, 2)}\n`);
     writeFileSync(join(tmp, 'family.json'), `${JSON.stringify(ctx.family, null, 2)}\n`);

@@ -2,15 +2,20 @@ import { dirname, join } from 'node:path';
 import { mkdirSync } from 'node:fs';
 import type { CourseRecord, IterationMetrics, RunState } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
-import { loadSafetensorsWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
+import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
 import { initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
-import { loadWalker, writeFileAtomic, type SkippedCheckpoint } from '../store/index.js';
+import { writeFileAtomic, type SkippedCheckpoint } from '../store/index.js';
 import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
 
 /** What `status` shows: the metrics line's figures plus identity and budget, and the active pairs. */
-export interface RunStatus extends IterationMetrics {
+export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved'> {
+  /**
+   * Difficulty of the hardest solved course, or null while no course beyond the start course is
+   * solved (the start course is flat ground, difficulty 0, so 0 would not tell the two apart).
+   */
+  readonly hardestSolved: number | null;
   readonly fingerprint: string;
   readonly targetIterations: number;
   readonly skippedCheckpoints: number;
@@ -25,7 +30,9 @@ export interface PairRow {
 }
 
 export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCheckpoint[]): { status: RunStatus; pairs: PairRow[] } {
-  const status = { ...run.metrics(state), fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length };
+  const metrics = run.metrics(state);
+  const beyondStart = state.courses.some((c) => c.solvedAt !== null && c.parent !== null);
+  const status = { ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length };
   const pairs = state.pairs.map((p) => {
     const course = state.courses.find((r) => r.id === p.courseId)!;
     return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: difficulty(course.genome, run.inputs.family) };
@@ -54,7 +61,7 @@ export async function writeStrobe(run: Run, state: RunState, courseId: number, w
   let params: readonly number[] = (rec.solvedBy ?? rec.best).params;
   let shape = run.ctx.shape;
   if (walkerFile) {
-    const w = walkerFile.endsWith('.safetensors') ? loadSafetensorsWalker(walkerFile) : loadWalker(walkerFile);
+    const w = loadAnyWalker(walkerFile);
     params = Array.from(w.params);
     shape = w.shape;
   }

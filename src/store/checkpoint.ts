@@ -1,5 +1,5 @@
 import { readdirSync, readFileSync, rmSync } from 'node:fs';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import { canonicalJson, sha256, UserError, writerVersions } from '../core/index.js';
 import type { RunState } from '../coevo/index.js';
 import { TEMP_PREFIX, writeFileAtomic } from './atomic.js';
@@ -69,7 +69,17 @@ export interface SkippedCheckpoint {
   readonly reason: string;
 }
 
-/** Reads and verifies one checkpoint; returns the problem instead of throwing. */
+/** The iteration a checkpoint's file name promises (ckpt-<iteration>.json), or undefined for another name. */
+function iterationInName(path: string): number | undefined {
+  const m = NAME.exec(basename(path));
+  return m ? Number(m[1]) : undefined;
+}
+
+/**
+ * Reads and verifies one checkpoint; returns the problem instead of throwing. A file whose
+ * name says one iteration and whose state holds another (copied or renamed by hand) is a
+ * problem too: resume picks the newest by name, and would otherwise load the wrong state.
+ */
 export function readCheckpoint(path: string, recipeHash: string): { state: RunState } | { problem: string } {
   let parsed: CheckpointFile;
   try {
@@ -84,6 +94,10 @@ export function readCheckpoint(path: string, recipeHash: string): { state: RunSt
   const found = sha256(canonicalJson(parsed.state ?? null));
   if (found !== parsed.checksum) return { problem: `checksum mismatch: expected ${parsed.checksum}, found ${found}` };
   if (parsed.recipeHash !== recipeHash) return { problem: `written for another recipe (hash ${parsed.recipeHash}, run's recipe is ${recipeHash})` };
+  const named = iterationInName(path);
+  if (named !== undefined && parsed.state.iteration !== named) {
+    return { problem: `file name says iteration ${named}, but the checkpoint holds iteration ${parsed.state.iteration}` };
+  }
   return { state: parsed.state };
 }
 

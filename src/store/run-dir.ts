@@ -5,6 +5,7 @@ import { readJsonFile, UserError } from '../core/index.js';
 import { loadRecipe, parseRecipe, recipeHashOf, type Recipe } from '../coevo/index.js';
 import { loadFamily, type TerrainFamily } from '../terrain/index.js';
 import { writeFileAtomic } from './atomic.js';
+import { EVENTS, FAULTS, METRICS } from './logs.js';
 
 export const RECIPE = 'recipe.json';
 export const FAMILY = 'family.json';
@@ -27,10 +28,20 @@ export interface RunOverrides {
   readonly minutes?: number;
 }
 
+/** Loads the file a recipe field names; any problem with it is reported with the recipe and the field. */
+function loadField<T>(recipePath: string, field: 'terrain' | 'body', load: () => T): T {
+  try {
+    return load();
+  } catch (e) {
+    if (e instanceof UserError) throw new UserError(`Recipe ${recipePath}, field \`${field}\`: ${e.message}`);
+    throw e;
+  }
+}
+
 /**
  * Validates a recipe and everything it names, then creates the run directory with the frozen
  * recipe (defaults filled in) and copies of the terrain family and body plan, so the run never
- * depends on files outside it. Refuses an existing, non-empty directory. Nothing is written
+ * depends on files outside it, and its empty logs. Refuses an existing, non-empty directory. Nothing is written
  * unless all inputs are valid.
  */
 export function createRunDir(recipePath: string, out: string | undefined, o: RunOverrides): RunInputs {
@@ -40,8 +51,8 @@ export function createRunDir(recipePath: string, out: string | undefined, o: Run
     seed: o.seed ?? loaded.seed,
     budget: { iterations: o.iterations ?? loaded.budget.iterations, minutes: o.minutes ?? loaded.budget.minutes },
   };
-  const family = loadFamily(recipe.terrain);
-  const plan = loadBodyPlan(recipe.body);
+  const family = loadField(recipePath, 'terrain', () => loadFamily(recipe.terrain));
+  const plan = loadField(recipePath, 'body', () => loadBodyPlan(recipe.body));
   const dir = resolve(out ?? join('runs', recipe.name));
   if (existsSync(dir) && readdirSync(dir).length > 0) {
     throw new UserError(`Run directory ${dir} already exists; to continue that run use \`cairn resume ${dir}\`, or choose another --out`);
@@ -52,6 +63,8 @@ export function createRunDir(recipePath: string, out: string | undefined, o: Run
     writeFileAtomic(join(dir, FAMILY), `${JSON.stringify(family, null, 2)}\n`);
     writeFileAtomic(join(dir, BODY), `${JSON.stringify(plan, null, 2)}\n`);
     writeFileAtomic(join(dir, RECIPE), `${JSON.stringify(frozen, null, 2)}\n`);
+    // The logs exist from the start, empty until something happens, so readers need no special case.
+    for (const log of [METRICS, EVENTS, FAULTS]) writeFileAtomic(join(dir, log), '');
   } catch (e) {
     rmSync(dir, { recursive: true, force: true });
     throw e;

@@ -33,7 +33,7 @@ function makeBuilder(genome: TerrainGenome, family: TerrainFamily, ground: numbe
     ground.push(x, y);
   };
   return {
-    pitDepth: family.pitDepth,
+    gapDepth: family.gapDepth,
     point,
     stretch(x1, y1) {
       let x0 = ground[ground.length - 2];

@@ -24,7 +24,7 @@ const familySchema = z
     maxFeatures: z.number().int().min(0).max(1000),
     minSpacing: z.number().positive(),
     friction: z.number().min(0).max(10),
-    pitDepth: z.number().positive().max(100),
+    gapDepth: z.number().positive().max(100),
     roughnessSpacing: z.number().positive(),
     roughness: range,
     kinds: z.partialRecord(z.enum(KIND_NAMES as [string, ...string[]]), z.record(z.string(), range)),

@@ -73,7 +73,7 @@ export interface TerrainFamily {
   /** Ground and obstacle friction coefficient. */
   readonly friction: number;
   /** Depth of the pit under every gap, m. */
-  readonly pitDepth: number;
+  readonly gapDepth: number;
   /** Horizontal spacing of roughness bumps, m. */
   readonly roughnessSpacing: number;
   /** Range of the roughness amplitude, m. */

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { UserError } from '../../src/core/index.js';
-import { footNames, loadBodyPlan, parseBodyPlan } from '../../src/body/index.js';
+import { footNames, loadBodyPlan, MAX_REACH, parseBodyPlan } from '../../src/body/index.js';
 
 const bodies = fileURLToPath(new URL('../../envs/bodies/', import.meta.url));
 const TRESTLE = join(bodies, 'trestle.json');
@@ -116,6 +116,28 @@ describe('rejects bad plans with a UserError naming the field path', () => {
     const json = trestleJson();
     json.joints[2].child = 'front_thigh';
     expect(rejection(json).message).toContain('plan.json: joints[2].child: "front_thigh" already hangs');
+  });
+
+  it('rejects a segment placed 1e9 m from the torso, naming the field', () => {
+    const json = trestleJson();
+    json.segments[2].position = [1e9, -0.57];
+    expect(rejection(json).message).toContain(`plan.json: segments[2].position: expected within ${MAX_REACH} m of the torso centre, found [1000000000, -0.57] (1000000000 m away)`);
+  });
+
+  it('rejects a joint anchored 1e9 m below the torso, naming the field', () => {
+    const json = trestleJson();
+    json.joints[5].anchor = [0, -1e9];
+    expect(rejection(json).message).toContain(`plan.json: joints[5].anchor: expected within ${MAX_REACH} m of the torso centre, found [0, -1000000000]`);
+  });
+
+  it('accepts a segment and an anchor exactly 10 m away (a 6-8-10 triangle) and refuses one a centimetre farther', () => {
+    const json = trestleJson();
+    json.segments[1].position = [6, -8];
+    json.joints[0].anchor = [-8, 6];
+    expect(MAX_REACH).toBe(10);
+    expect(() => parseBodyPlan(json, 'plan.json')).not.toThrow();
+    json.segments[1].position = [6, -8.01];
+    expect(rejection(json).message).toContain('plan.json: segments[1].position: expected within 10 m of the torso centre, found [6, -8.01] (10.01 m away)');
   });
 
   it('rejects a torso marked as foot', () => {

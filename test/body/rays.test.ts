@@ -145,7 +145,7 @@ describe('CourseRays on known geometry (flat start course)', () => {
       ],
     };
     const r = new CourseRays(buildCourse(genome, family));
-    // The pit floor lies family.pitDepth (2 m) below the ground: 3 m down from y = 1.
+    // The pit floor lies family.gapDepth (2 m) below the ground: 3 m down from y = 1.
     expect(r.cast(10.5, 1, 0, -1, 4)).toBeCloseTo(3 / 4, 15);
     // The block top is 0.3 m high: 0.7 m down from y = 1.
     expect(r.cast(15.5, 1, 0, -1, 4)).toBeCloseTo(0.7 / 4, 15);

@@ -35,7 +35,7 @@ describe('minimal criterion boundaries', () => {
     ['just above high', HIGH + 1e-12, 'too-easy'],
   ];
   it.each(cases)('a candidate whose best walker makes progress %s (%s) is %s', async (_, value, outcome) => {
-    const { ctx, state } = setup({ candidates: 4, maxAdmitted: 4, minNovelty: 0 });
+    const { ctx, state } = setup({ candidates: 4, admitPerRound: 4, minNovelty: 0 });
     // Walker 1 (tag 2) is the better one on every candidate; walker 0 falls short of the band.
     const fake = new FakeEvaluator(ctx, (r) => (r.courseId !== null ? OWN : r.tag === 2 ? value : 0));
     const out = await step(state, ctx, fake);
@@ -102,7 +102,7 @@ const point = (p: Planned, g: TerrainGenome): number[] => normalisedDescriptor(g
 
 describe('candidate outcome records', () => {
   it('records one event per candidate, in proposal order, with its descriptor and parent', async () => {
-    const p = planned({ maxAdmitted: 2 });
+    const p = planned({ admitPerRound: 2 });
     const { out, events } = await runPlanned(p);
     expect(events).toHaveLength(8);
     events.forEach((e, i) => {
@@ -114,7 +114,7 @@ describe('candidate outcome records', () => {
   });
 
   it('marks duplicates without evaluating them', async () => {
-    const p = planned({ maxAdmitted: 2 });
+    const p = planned({ admitPerRound: 2 });
     const { events, fake } = await runPlanned(p);
     events.forEach((e, i) => {
       if (!p.duplicate[i]) return expect(e.outcome).not.toBe('duplicate');
@@ -124,16 +124,16 @@ describe('candidate outcome records', () => {
   });
 
   it('reports the best walker and its progress for candidates outside the band', async () => {
-    const p = planned({ maxAdmitted: 2 });
+    const p = planned({ admitPerRound: 2 });
     const { events, liveIndex } = await runPlanned(p);
     const out = events.filter((_, i) => !p.duplicate[i] && liveIndex[i] < 2);
     expect(out.map((e) => e.outcome)).toEqual(['too-hard', 'too-easy']);
     out.forEach((e, j) => expect(e).toMatchObject({ bestProgress: valueFor(j), walkerId: j % 2, novelty: null, courseId: null }));
   });
 
-  it('admits at most maxAdmitted, the most novel first, with new course ids in proposal order', async () => {
+  it('admits at most admitPerRound, the most novel first, with new course ids in proposal order', async () => {
     // k no larger than the run's 3 courses: then adding references can only lower a novelty.
-    const p = planned({ maxAdmitted: 2, minNovelty: 0 }, { novelty: { k: 3 } });
+    const p = planned({ admitPerRound: 2, minNovelty: 0 }, { novelty: { k: 3 } });
     expect(p.state.courses.length).toBeGreaterThanOrEqual(p.ctx.recipe.novelty.k);
     const { out, events, liveIndex } = await runPlanned(p);
     const inBand = events.map((e, i) => ({ e, i })).filter(({ i }) => !p.duplicate[i] && liveIndex[i] >= 2);
@@ -156,7 +156,7 @@ describe('candidate outcome records', () => {
   });
 
   it('turns each admitted candidate into a course and a pair seeded from the best walker', async () => {
-    const p = planned({ maxAdmitted: 2 });
+    const p = planned({ admitPerRound: 2 });
     const { out, events } = await runPlanned(p);
     const admitted = events.map((e, i) => ({ e, i })).filter(({ e }) => e.outcome === 'admitted');
     expect(admitted).toHaveLength(2);
@@ -179,7 +179,7 @@ describe('candidate outcome records', () => {
   });
 
   it('refuses every in-band candidate as not novel when minNovelty is out of reach', async () => {
-    const p = planned({ maxAdmitted: 8, minNovelty: 1e6 });
+    const p = planned({ admitPerRound: 8, minNovelty: 1e6 });
     const { out, events, liveIndex } = await runPlanned(p);
     const inBand = events.filter((_, i) => !p.duplicate[i] && liveIndex[i] >= 2);
     expect(inBand.length).toBeGreaterThan(0);
@@ -198,7 +198,7 @@ describe('candidate outcome records', () => {
     const n0 = inBand.map((i) => knnNovelty(point(probe, probe.genomes[i]), refs0, probe.ctx.recipe.novelty.k));
     const best = Math.max(...n0);
     expect(n0.filter((n) => n === best)).toHaveLength(1);
-    const p = planned({ maxAdmitted: 8, minNovelty: best });
+    const p = planned({ admitPerRound: 8, minNovelty: best });
     const { events } = await runPlanned(p);
     inBand.forEach((i, j) => expect(events[i].outcome).toBe(n0[j] === best ? 'admitted' : 'not-novel'));
   });

@@ -45,7 +45,7 @@ describe('cairn run on runs/smoke.json', () => {
   });
 
   it('freezes the recipe with every default filled in, and copies the family and body plan', () => {
-    expect(readdirSync(dir).sort()).toEqual(['body.json', 'checkpoints', 'events.jsonl', 'family.json', 'metrics.jsonl', 'recipe.json']);
+    expect(readdirSync(dir).sort()).toEqual(['body.json', 'checkpoints', 'events.jsonl', 'family.json', 'faults.jsonl', 'metrics.jsonl', 'recipe.json']);
     const frozen = JSON.parse(readFileSync(join(dir, 'recipe.json'), 'utf8')) as Recipe;
     // Written out in full: sections smoke.json leaves out (novelty, episode.timeStep, ...) are there.
     expect(frozen).toEqual({ ...recipe, terrain: 'family.json', body: 'body.json' });
@@ -85,11 +85,11 @@ describe('cairn run on runs/smoke.json', () => {
 
   it('reaches a transfer round with at least two pairs', () => {
     // At a transfer iteration i with P pairs (P_b before admission), the ES phase runs
-    // 17·P_b rollouts (1 + 2·8 each); admission and solve checks add at most (8 + 2)·P_b ≤ 10·P;
+    // 17·P_b rollouts (the mean and es.population 16 candidates each); admission and solve checks add at most (8 + 2)·P_b ≤ 10·P;
     // a transfer round adds P² zero-shot and 18·P fine-tuning rollouts (fineTuneTop 1). So a
     // count of at least 17·P_b + P² + 18·P proves that the round ran.
     const m = jsonLines<IterationMetrics>(join(dir, 'metrics.jsonl'));
-    const perPair = 1 + 2 * recipe.es.pairs;
+    const perPair = 1 + recipe.es.population;
     const ran = m.filter((l, k) => {
       if (k === 0 || l.iteration % recipe.transfer.interval !== 0 || l.activePairs < 2) return false;
       const [pb, p] = [m[k - 1].activePairs, l.activePairs];
@@ -127,11 +127,11 @@ describe('cairn run refusals', () => {
 
   it('refuses a bad recipe with exit 2, naming the fields, and writes nothing', () => {
     const path = join(tmp, 'bad.json');
-    writeFileSync(path, JSON.stringify({ name: 'bad', es: { pairs: 0 }, novelty: { kk: 3 } }));
+    writeFileSync(path, JSON.stringify({ name: 'bad', es: { population: 0 }, novelty: { kk: 3 } }));
     const out = join(tmp, 'bad-run');
     const r = cairn('run', path, '--out', out, '--quiet', '--workers', '0');
     expect(r.code).toBe(2);
-    expect(r.stderr).toMatch(/es\.pairs/);
+    expect(r.stderr).toMatch(/es\.population/);
     expect(r.stderr).toMatch(/novelty.*"kk"/);
     expect(r.stderr).not.toMatch(/^\s+at /m);
     expect(r.stdout).toBe('');

@@ -17,10 +17,10 @@ import { contextFor, ensureBuilt, tinyRecipe } from './helpers.js';
 const ITERATIONS = 3;
 const recipe = tinyRecipe({
   seed: 5,
-  es: { pairs: 2, sigma: 0.5, learningRate: 0.2 },
+  es: { population: 4, sigma: 0.5, learningRate: 0.2 },
   episode: { maxSteps: 150, trainingPush: 0.2 },
   population: { maxActive: 2 },
-  admission: { interval: 2, reproduceAbove: 0, candidates: 3, low: 0, high: 1, maxAdmitted: 2 },
+  admission: { interval: 2, reproduceAbove: 0, candidates: 3, low: 0, high: 1, admitPerRound: 2 },
   transfer: { interval: 3, fineTuneTop: 1 },
   solve: { threshold: 0.01, checks: 2 },
 });
@@ -68,9 +68,9 @@ describe('fingerprint invariance', () => {
     const [before, after] = [reference.states[ITERATIONS - 1], reference.states[ITERATIONS]];
     const pairs = before.pairs.length;
     expect(pairs).toBeGreaterThanOrEqual(2);
-    // The ES phase alone runs pairs × (mean + 2·es.pairs) rollouts; the transfer round adds at
+    // The ES phase alone runs pairs × (mean + es.population) rollouts; the transfer round adds at
     // least pairs × pairs zero-shot ones (incumbent and every other walker on each course).
-    const esOnly = pairs * (1 + 2 * recipe.es.pairs);
+    const esOnly = pairs * (1 + recipe.es.population);
     expect(after.counters.rollouts - before.counters.rollouts).toBeGreaterThanOrEqual(esOnly + pairs * pairs);
   });
 

@@ -25,14 +25,14 @@ export const CLI = join(ROOT, 'dist/cli/main.js');
 export type RecipeOverrides = Record<string, unknown>;
 
 /**
- * A tiny valid recipe on the starter family with the trestle body: 2 ES pairs, 100-step
+ * A tiny valid recipe on the starter family with the trestle body: an ES population of 4, 100-step
  * episodes, no training push, and admission, transfer and solving switched off unless `over`
  * turns them on.
  */
 export function tinyRecipe(over: RecipeOverrides = {}): Recipe {
   const base: Record<string, unknown> = {
     name: 'test', seed: 11, terrain: STARTER, body: TRESTLE,
-    es: { pairs: 2 },
+    es: { population: 4 },
     episode: { maxSteps: 100, trainingPush: 0 },
     admission: { interval: 1_000_000 },
     transfer: { interval: 1_000_000 },

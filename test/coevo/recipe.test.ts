@@ -32,12 +32,12 @@ describe('parseRecipe defaults', () => {
   });
 
   it('keeps given fields and fills the rest of their section', () => {
-    const r = parseRecipe({ es: { pairs: 3 }, admission: { low: 0.2 } }, 'r.json');
-    expect(r.es.pairs).toBe(3);
+    const r = parseRecipe({ es: { population: 6 }, admission: { low: 0.2 } }, 'r.json');
+    expect(r.es.population).toBe(6);
     // The ES defaults are those of the evolve layer, whose Adam settings follow Kingma & Ba
     // (2015), "Adam: A Method for Stochastic Optimization": β₁ 0.9, β₂ 0.999, ε 1e-8.
-    const { pairs: _p, ...esRest } = defaultEsConfig();
-    expect(r.es).toEqual({ pairs: 3, ...esRest });
+    const { population: _p, ...esRest } = defaultEsConfig();
+    expect(r.es).toEqual({ population: 6, ...esRest });
     expect([r.es.beta1, r.es.beta2, r.es.epsilon]).toEqual([0.9, 0.999, 1e-8]);
     expect(r.admission.low).toBe(0.2);
     expect(r.admission.high).toBe(parseRecipe({}, 'r.json').admission.high);
@@ -57,24 +57,25 @@ describe('parseRecipe refusals', () => {
   });
 
   it('refuses wrong types with the path, what was expected and what was found', () => {
-    const [p] = problemsOf({ es: { pairs: 'four' } });
-    expect(p).toMatch(/^r\.json: es\.pairs: .*expected number.*found "four"/);
+    const [p] = problemsOf({ es: { population: 'four' } });
+    expect(p).toMatch(/^r\.json: es\.population: .*expected number.*found "four"/);
     expect(problemsOf({ seed: 1.5 })[0]).toMatch(/^r\.json: seed: .*int.*found 1\.5/);
     expect(problemsOf({ novelty: { measure: 'euclid' } })[0]).toMatch(/novelty\.measure: .*"descriptor".*"profile".*found "euclid"/);
     expect(problemsOf([])[0]).toMatch(/\(top level\): .*expected object/);
   });
 
   it('refuses values out of range with the bound', () => {
-    expect(problemsOf({ es: { pairs: 0 } })[0]).toMatch(/^r\.json: es\.pairs: .*>=1.*found 0/);
+    expect(problemsOf({ es: { population: 0 } })[0]).toMatch(/^r\.json: es\.population: .*>=2.*found 0/);
+    expect(problemsOf({ es: { population: 31 } })).toEqual(['r.json: es.population: expected an even number (candidates come in mirrored pairs) (found 31)']);
     expect(problemsOf({ admission: { high: 1.5 } })[0]).toMatch(/^r\.json: admission\.high: .*<=1.*found 1\.5/);
     expect(problemsOf({ policy: { hidden: [8, 0] } })[0]).toMatch(/^r\.json: policy\.hidden\[1\]: .*>=1.*found 0/);
     expect(problemsOf({ es: { beta1: 1 } })[0]).toMatch(/^r\.json: es\.beta1: .*<1/);
   });
 
   it('lists every problem at once', () => {
-    const ps = problemsOf({ es: { pairs: 0, sigma: -1 }, solve: { checks: 'x' }, extra: true });
+    const ps = problemsOf({ es: { population: 0, sigma: -1 }, solve: { checks: 'x' }, extra: true });
     expect(ps).toHaveLength(4);
-    for (const where of ['es.pairs', 'es.sigma', 'solve.checks', '"extra"']) expect(ps.some((p) => p.includes(where)), where).toBe(true);
+    for (const where of ['es.population', 'es.sigma', 'solve.checks', '"extra"']) expect(ps.some((p) => p.includes(where)), where).toBe(true);
   });
 
   it('refuses admission.low at or above admission.high, and accepts it just below', () => {

@@ -13,7 +13,7 @@ const IN_BAND = 0.5;
 function recipe(minNovelty: number, maxActive = 2) {
   return tinyRecipe({
     population: { maxActive },
-    admission: { interval: 1, reproduceAbove: 0.3, low: 0.2, high: 0.8, candidates: 6, maxAdmitted: 2, minNovelty },
+    admission: { interval: 1, reproduceAbove: 0.3, low: 0.2, high: 0.8, candidates: 6, admitPerRound: 2, minNovelty },
     novelty: { k: 5 },
   });
 }

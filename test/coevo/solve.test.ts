@@ -65,8 +65,8 @@ describe('solve confirmation', () => {
       expect(r.push).not.toBe(0);
       expect(Math.abs(r.push)).toBeLessThanOrEqual(PUSH);
     }
-    // The checks are counted with the run's rollouts: 2 pairs × (mean + 2·2 candidates) + 3.
-    expect(out.state.counters.rollouts).toBe(2 * (1 + 2 * ctx.recipe.es.pairs) + 3);
+    // The checks are counted with the run's rollouts: 2 pairs × (mean + 4 candidates) + 3.
+    expect(out.state.counters.rollouts).toBe(2 * (1 + ctx.recipe.es.population) + 3);
   });
 
   it('does not check a pair below the threshold', async () => {

@@ -19,7 +19,7 @@ describe('trainWalker', () => {
   it('raises progress on a short flat course above the untrained walker within a few ES iterations', async () => {
     const { course, plan, shape } = setup();
     const settings = {
-      iterations: 8, stopAtProgress: 2, es: { ...defaultEsConfig(), pairs: 8 },
+      iterations: 8, es: { ...defaultEsConfig(), population: 16 },
       rollout: { ...defaultRolloutOptions(), maxSteps: 400 }, seed: 5,
     };
     const out = await trainWalker(course, plan, shape, freshEsState(shape, 5), settings, new InlineEvaluator());
@@ -32,7 +32,7 @@ describe('trainWalker', () => {
 
   it('stops early once the mean walker reaches stopAtProgress and returns those weights', async () => {
     const { course, plan, shape } = setup();
-    const settings = { iterations: 30, stopAtProgress: 0.01, es: { ...defaultEsConfig(), pairs: 4 }, rollout: { ...defaultRolloutOptions(), maxSteps: 300 }, seed: 5 };
+    const settings = { iterations: 30, stopAtProgress: 0.01, es: { ...defaultEsConfig(), population: 8 }, rollout: { ...defaultRolloutOptions(), maxSteps: 300 }, seed: 5 };
     const out = await trainWalker(course, plan, shape, freshEsState(shape, 5), settings, new InlineEvaluator());
     const last = out.log[out.log.length - 1];
     expect(out.log.length).toBeLessThan(30);

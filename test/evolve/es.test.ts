@@ -32,10 +32,10 @@ function evaluatePairs(mean: readonly number[], seeds: number[], sigma: number, 
 describe('ask', () => {
   const cfg = defaultEsConfig();
 
-  it('draws one uint32 seed per pair and advances the stream', () => {
+  it('draws one uint32 seed per mirrored pair (half the population) and advances the stream', () => {
     const s0 = initEsState([0, 0, 0], stream(1, 'es'));
     const a = ask(s0, cfg);
-    expect(a.seeds).toHaveLength(cfg.pairs);
+    expect(a.seeds).toHaveLength(cfg.population / 2);
     for (const s of a.seeds) expect(Number.isInteger(s) && s >= 0 && s < 2 ** 32).toBe(true);
     expect(canonicalJson(ask(s0, cfg))).toBe(canonicalJson(a));
     expect(ask(a.state, cfg).seeds).not.toEqual(a.seeds);
@@ -54,11 +54,11 @@ describe('ask', () => {
 describe('tell', () => {
   it('estimates the direction of a linear objective f(x) = c·x (property)', () => {
     // E[(f(θ+σε) − f(θ−σε)) ε] ∝ c for a linear f, and ranks are monotone in f, so the estimate
-    // must align with c. 500 pairs in 8 dimensions: observed cosines are above 0.98.
+    // must align with c. 500 mirrored pairs in 8 dimensions: observed cosines are above 0.98.
     const c8 = fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: 8, maxLength: 8 })
       .filter((c) => Math.sqrt(dot(c, c)) > 0.1);
     fc.assert(fc.property(c8, fc.nat(), (c, seed) => {
-      const cfg: EsConfig = { ...defaultEsConfig(), pairs: 500, sigma: 0.1 };
+      const cfg: EsConfig = { ...defaultEsConfig(), population: 1000, sigma: 0.1 };
       const s0 = initEsState(new Array<number>(8).fill(0.5), stream(seed, 'es'));
       const a = ask(s0, cfg);
       const f = evaluatePairs(s0.mean, a.seeds, cfg.sigma, (x) => dot(c, x));
@@ -72,7 +72,7 @@ describe('tell', () => {
   it('does not move the mean when every fitness is equal and there is no weight decay', () => {
     const cfg = { ...defaultEsConfig(), weightDecay: 0 };
     const a = ask(initEsState([0.3, -0.7], stream(3, 'es')), cfg);
-    const flat = new Array<number>(cfg.pairs).fill(1);
+    const flat = new Array<number>(cfg.population / 2).fill(1);
     const next = tell(a.state, cfg, a.seeds, flat, flat);
     expect(next.mean).toEqual([0.3, -0.7]);
     expect(next.t).toBe(1);
@@ -81,7 +81,7 @@ describe('tell', () => {
   it('shrinks the mean by weight decay alone when fitness carries no signal', () => {
     const cfg = defaultEsConfig();
     const a = ask(initEsState([0.3, -0.7], stream(3, 'es')), cfg);
-    const failed = new Array<number>(cfg.pairs).fill(NaN);
+    const failed = new Array<number>(cfg.population / 2).fill(NaN);
     const next = tell(a.state, cfg, a.seeds, failed, failed);
     expect(Math.abs(next.mean[0])).toBeLessThan(0.3);
     expect(Math.abs(next.mean[1])).toBeLessThan(0.7);
@@ -89,14 +89,14 @@ describe('tell', () => {
 
   it('treats a NaN fitness as the worst outcome', () => {
     // Pair 0's plus side failed (NaN), its minus side scored the best: the update must move along −ε₀.
-    const cfg: EsConfig = { ...defaultEsConfig(), pairs: 1, weightDecay: 0 };
+    const cfg: EsConfig = { ...defaultEsConfig(), population: 2, weightDecay: 0 };
     const a = ask(initEsState([0, 0, 0], stream(4, 'es')), cfg);
     const g = estimateGradient(a.seeds, [NaN], [-1e9], cfg.sigma, 3);
     const eps = candidate([0, 0, 0], a.seeds[0], 1, 1);
     expect(cosine(g, eps)).toBeCloseTo(-1, 12);
   });
 
-  it('refuses a seed count that differs from config.pairs', () => {
+  it('refuses a seed count that differs from half of config.population', () => {
     const cfg = defaultEsConfig();
     const s0 = initEsState([0], stream(5, 'es'));
     expect(() => tell(s0, cfg, [1, 2], [0, 0], [0, 0])).toThrow(/16 seeds/);

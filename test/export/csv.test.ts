@@ -9,7 +9,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { csvField, toCsv } from '../../src/export/index.js';
+import { csvField, snakeCase, toCsv } from '../../src/export/index.js';
 import { cleanup, exportRun, readJson, smokeRun, tempDir } from './helpers.js';
 
 /** Parses RFC 4180 text into records; throws on anything the grammar does not allow (bare CR or LF, stray quotes, a missing final CRLF). */
@@ -80,8 +80,10 @@ describe('summary.csv of an export', () => {
   let text: string;
   let courses: Record<string, any>[]; // parsed curriculum entries
 
+  let dir: string;
+
   beforeAll(() => {
-    const dir = join(tempDir('csv'), 'exp');
+    dir = join(tempDir('csv'), 'exp');
     exportRun(smokeRun(), dir, '--order', 'difficulty');
     text = readFileSync(join(dir, 'summary.csv'), 'utf8');
     records = parseCsv(text);
@@ -93,6 +95,14 @@ describe('summary.csv of an export', () => {
     expect(text.replace(/\r\n/g, '')).not.toMatch(/[\r\n]/);
     expect(records[0].slice(0, 2)).toEqual(['order', 'course_id']);
     expect(new Set(records.map((r) => r.length)).size).toBe(1);
+  });
+
+  it('writes every header in one style, snake case, the descriptor names included', () => {
+    for (const h of records[0]) expect(h).toMatch(/^[a-z]+(_[a-z]+)*$/);
+    const names = readJson<{ descriptorNames: string[] }>(join(dir, 'curriculum.json')).descriptorNames;
+    expect(names).toContain('gapWidth');
+    expect(records[0]).toContain('gap_width');
+    expect(records[0].filter((h) => names.map(snakeCase).includes(h))).toHaveLength(names.length);
   });
 
   it('has one row per course, in curriculum order, with the exported figures', () => {

@@ -2,12 +2,15 @@
  * `cairn eval --curriculum FILE --course ID`: the exported walker on the exported course under
  * the run's exported settings reproduces the exported progress exactly (the simulation is
  * deterministic), and the command refuses walker files whose bytes no longer match the SHA-256
- * (FIPS 180-4) the curriculum records, unknown course ids and edited curricula.
+ * (FIPS 180-4) the curriculum records, unknown course ids and edited curricula. `eval --walker`
+ * also reads an exported .safetensors walker on any course.
  */
 import { cpSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { cairn, cairnAsync, cleanup, exportRun, readJson, smokeRun, solvedVariant, tempDir, type SolvedVariant } from './helpers.js';
+import { actionSize, observationSize } from '../../src/body/index.js';
+import { openRun, saveWalker } from '../../src/store/index.js';
+import { cairn, cairnAsync, cleanup, exportRun, readJson, ROOT, smokeRun, solvedVariant, tempDir, type SolvedVariant } from './helpers.js';
 
 interface Ref { progress: number; walker: { file: string; sha256: string } }
 interface Entry { id: number; best: Ref; solvedBy: Ref | null }
@@ -95,5 +98,44 @@ describe('cairn eval --curriculum', () => {
     const n = cairn(['eval', '--curriculum', file]);
     expect(n.code).toBe(2);
     expect(n.stderr).toMatch(/--course/);
+  });
+});
+
+describe('cairn eval --walker with an exported .safetensors walker', () => {
+  let tmp: string;
+  let run: string;
+  let args: string[];
+
+  beforeAll(() => {
+    run = smokeRun();
+    tmp = tempDir('eval-walker');
+    exportRun(run, join(tmp, 'exp'));
+    args = ['eval', '--terrain', join(run, 'family.json'), '--body', join(run, 'body.json'), '--steps', '400', '--json'];
+  }, 600_000);
+  afterAll(cleanup);
+
+  it('gives exactly what the same weights give from a walker JSON made from the checkpoint', () => {
+    const entry = readJson<{ courses: Entry[] }>(join(tmp, 'exp', 'curriculum.json')).courses[0];
+    const { inputs, state } = openRun(run);
+    const plan = inputs.plan;
+    // The weights come from the run's checkpoint, not from the safetensors file, so the two paths are independent.
+    const params = state.courses.find((c) => c.id === entry.id)!.best.params;
+    const shape = { inputs: observationSize(plan), hidden: inputs.recipe.policy.hidden, outputs: actionSize(plan), activation: inputs.recipe.policy.activation };
+    saveWalker(join(tmp, 'walker.json'), { body: join(run, 'body.json'), bodyName: plan.name, shape, params });
+    const fromSafetensors = cairn([...args, '--walker', join(tmp, 'exp', entry.best.walker.file)]);
+    const fromJson = cairn([...args, '--walker', join(tmp, 'walker.json')]);
+    const random = cairn([...args, '--seed', '5']);
+    for (const r of [fromSafetensors, fromJson, random]) expect(r.code, r.stderr).toBe(0);
+    expect(fromSafetensors.stdout).toBe(fromJson.stdout);
+    expect(fromSafetensors.stdout).not.toBe(random.stdout); // the walker is really used
+  });
+
+  it('refuses an exported walker made for another body plan: exit 2, one message', () => {
+    const entry = readJson<{ courses: Entry[] }>(join(tmp, 'exp', 'curriculum.json')).courses[0];
+    const walker = join(tmp, 'exp', entry.best.walker.file);
+    const r = cairn(['eval', '--body', join(ROOT, 'envs/bodies/stilt.json'), '--walker', walker, '--json']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toBe(`cairn: Walker ${walker} was made for body plan "trestle", but --body ${join(ROOT, 'envs/bodies/stilt.json')} is "stilt"\n`);
+    expect(r.stdout).toBe('');
   });
 });

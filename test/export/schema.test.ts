@@ -3,12 +3,13 @@
  * 2020-12), checked with two independent implementations: ajv's draft 2020-12 build in Node and
  * Python's jsonschema (Draft202012Validator) from Debian's python3-jsonschema.
  */
-import { readFileSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { cpSync, existsSync, readFileSync, symlinkSync } from 'node:fs';
 import { join } from 'node:path';
 import Ajv2020Module from 'ajv/dist/2020.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { curriculumProblems, curriculumSchemaPath } from '../../src/export/index.js';
-import { cleanup, exportRun, python, readJson, smokeRun, tempDir } from './helpers.js';
+import { curriculumProblems, curriculumSchemaText } from '../../src/export/index.js';
+import { cleanup, exportRun, python, readJson, ROOT, smokeRun, tempDir } from './helpers.js';
 
 // Corruptions reach deep into the parsed JSON: loosely typed on purpose.
 type Json = Record<string, any>;
@@ -65,10 +66,22 @@ describe('curriculum.json against its JSON Schema (draft 2020-12)', () => {
   }, 600_000);
   afterAll(cleanup);
 
-  it('ships the schema beside the curriculum, byte for byte the one in src/export/schema/', () => {
+  it('ships the schema beside the curriculum, byte for byte the one compiled into cairn', () => {
     expect(curriculum.$schema).toBe('./curriculum.schema.json');
-    expect(readFileSync(join(dir, 'curriculum.schema.json'), 'utf8')).toBe(readFileSync(curriculumSchemaPath(), 'utf8'));
+    expect(readFileSync(join(dir, 'curriculum.schema.json'), 'utf8')).toBe(curriculumSchemaText());
     expect(schema.$schema).toBe('https://json-schema.org/draft/2020-12/schema');
+  });
+
+  it('travels with the built package: an export from a copy of dist/ with no src/ beside it writes the same schema', () => {
+    const pkg = tempDir('package');
+    cpSync(join(ROOT, 'dist'), join(pkg, 'dist'), { recursive: true });
+    cpSync(join(ROOT, 'package.json'), join(pkg, 'package.json'));
+    symlinkSync(join(ROOT, 'node_modules'), join(pkg, 'node_modules'));
+    const out = join(pkg, 'exp');
+    const r = spawnSync(process.execPath, [join(pkg, 'dist/cli/main.js'), 'export', smokeRun(), '--out', out], { cwd: pkg, encoding: 'utf8' });
+    expect(r.status, r.stderr).toBe(0);
+    expect(existsSync(join(pkg, 'src'))).toBe(false);
+    expect(readFileSync(join(out, 'curriculum.schema.json'), 'utf8')).toBe(readFileSync(join(dir, 'curriculum.schema.json'), 'utf8'));
   });
 
   it('compiles under ajv\'s draft 2020-12 build in strict mode and accepts the export', () => {

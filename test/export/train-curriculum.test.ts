@@ -87,9 +87,9 @@ describe('cairn train --curriculum', () => {
     expect(replay(join(out, 'direct-walker.json'))).toBe(report.direct!.finalProgress);
   });
 
-  it('trains a network of another size with --policy 8', () => {
+  it('trains a network of another size with --hidden 8', () => {
     const out = join(tmp, 'policy8');
-    const report = train(out, '--policy', '8');
+    const report = train(out, '--hidden', '8');
     expect(report.direct).toBeNull();
     expect(report.curriculum.stages.map((s) => s.courseId)).toEqual(order);
     expectStagesCounted(report.curriculum);

@@ -26,15 +26,17 @@ describe('writing an export', () => {
   }, 600_000);
   afterAll(cleanup);
 
-  it('fails with exit 1 or 2 when the target\'s parent is a regular file, and leaves nothing behind', () => {
+  it('refuses with exit 2 and one message when a parent of the target is a regular file, writing nothing', () => {
     const box = join(tmp, 'parent-is-file');
     mkdirSync(box);
     writeFileSync(join(box, 'plain'), 'not a directory\n');
-    const r = cairn(['export', run, '--out', join(box, 'plain', 'exp')]);
-    expect([1, 2]).toContain(r.code);
-    expect(r.stderr).toContain(join(box, 'plain'));
-    expect(readdirSync(box)).toEqual(['plain']);
-    expect(readFileSync(join(box, 'plain'), 'utf8')).toBe('not a directory\n');
+    for (const out of [join(box, 'plain', 'exp'), join(box, 'plain', 'deeper', 'exp')]) {
+      const r = cairn(['export', run, '--out', out]);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toBe(`cairn: Export target ${out} cannot be created: ${join(box, 'plain')} is a file, not a directory; choose another --out\n`);
+      expect(readdirSync(box)).toEqual(['plain']);
+      expect(readFileSync(join(box, 'plain'), 'utf8')).toBe('not a directory\n');
+    }
   });
 
   it('replaces an earlier export at the same --out completely, leaving no temporary directory', () => {

@@ -4,7 +4,6 @@
  * Debian's chromium through playwright-core with every network request refused.
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { inflateSync } from 'node:zlib';
 import { chromium, type Browser, type Page } from 'playwright-core';
@@ -14,7 +13,6 @@ export { ensureBuilt, ROOT } from '../pool/helpers.js';
 
 export const CLI = join(ROOT, 'dist/cli/main.js');
 export const CHROMIUM = '/usr/bin/chromium';
-export const HAVE_CHROMIUM = existsSync(CHROMIUM);
 
 /** Runs the compiled command line; never throws on a non-zero exit. */
 export function cairn(...args: string[]): { code: number | null; stdout: string; stderr: string } {

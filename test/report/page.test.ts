@@ -1,7 +1,7 @@
 /**
  * End to end: the smoke run, `cairn report` on it opened in headless chromium (offline, every
- * network request refused), and `cairn render`. The browser part is skipped only where
- * /usr/bin/chromium is missing; CI installs it. The smoke run takes most of the time.
+ * network request refused), and `cairn render`. Debian's /usr/bin/chromium is required, not
+ * skipped: `npm test` installs it first (test/system-packages.mjs). The smoke run takes most of the time.
  * The DOM types are for the callbacks that page.evaluate runs inside the browser.
  */
 /// <reference lib="dom" />
@@ -13,7 +13,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ReportData } from '../../src/report/index.js';
 import { openRun, type OpenedRun } from '../../src/store/index.js';
-import { cairn, CHROMIUM, colourStats, decodePng, ensureBuilt, HAVE_CHROMIUM, launchChromium, ROOT, watchPage, xmlProblems, type PageWatch } from './helpers.js';
+import { cairn, colourStats, decodePng, ensureBuilt, launchChromium, ROOT, watchPage, xmlProblems, type PageWatch } from './helpers.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'cairn-report-'));
 const runDir = join(tmp, 'run');
@@ -68,10 +68,7 @@ describe('cairn report and render on the smoke run', () => {
   });
 });
 
-const why = HAVE_CHROMIUM ? '' : ` (skipped: ${CHROMIUM} is missing; CI installs it)`;
-if (!HAVE_CHROMIUM) console.warn(`test/report/page.test.ts: browser tests skipped, ${CHROMIUM} is missing`);
-
-describe.skipIf(!HAVE_CHROMIUM)(`the report in chromium${why}`, () => {
+describe('the report in chromium', () => {
   let browser: Browser;
   let page: Page;
   let watch: PageWatch;

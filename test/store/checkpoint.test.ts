@@ -160,6 +160,16 @@ describe('loading the newest checkpoint', () => {
     expect(r.state?.iteration).toBe(1);
   });
 
+  it('skips a checkpoint whose file name names another iteration than the state inside it', () => {
+    const dir = copy('renamed');
+    // Checkpoint 1's bytes (checksum intact) under checkpoint 2's name, as a hand copy would leave them.
+    cpSync(checkpointPath(dir, 1), checkpointPath(dir, 2));
+    expect(readCheckpoint(checkpointPath(dir, 2), inputs.recipeHash)).toEqual({ problem: 'file name says iteration 2, but the checkpoint holds iteration 1' });
+    const r = loadNewestCheckpoint(dir, inputs.recipeHash);
+    expect(r.skipped).toEqual([{ file: checkpointPath(dir, 2), reason: 'file name says iteration 2, but the checkpoint holds iteration 1' }]);
+    expect(canonicalJson(r.state)).toBe(canonicalJson(states[1]));
+  });
+
   it('refuses to open a run whose every checkpoint is damaged, naming each', () => {
     const dir = copy('none');
     for (const it of [0, 1, 2]) truncateSync(checkpointPath(dir, it), 10);

@@ -48,12 +48,29 @@ describe('cairn run refuses bad input and writes nothing', () => {
       return [join(cwd, 'recipe.json'), '--out', out];
     }, /speed/));
 
-  it('a recipe naming a terrain family that does not exist', () =>
+  it('a recipe naming a terrain family that does not exist, naming the field and the path', () =>
     expectRefused('family', (cwd, out) => {
       const bad = JSON.parse(readFileSync(recipe, 'utf8')) as Record<string, unknown>;
       writeFileSync(join(cwd, 'recipe.json'), JSON.stringify({ ...bad, terrain: 'no-such-family.json' }));
       return [join(cwd, 'recipe.json'), '--out', out];
-    }, /no-such-family\.json/));
+    }, /^cairn: Recipe .*\/family\/recipe\.json, field `terrain`: Terrain family file not found or unreadable: .*\/family\/no-such-family\.json \(ENOENT\)\n$/));
+
+  it('a recipe naming a body plan that does not exist, naming the field and the path', () =>
+    expectRefused('body', (cwd, out) => {
+      const bad = JSON.parse(readFileSync(recipe, 'utf8')) as Record<string, unknown>;
+      writeFileSync(join(cwd, 'recipe.json'), JSON.stringify({ ...bad, body: 'bodies/none.json' }));
+      return [join(cwd, 'recipe.json'), '--out', out];
+    }, /^cairn: Recipe .*\/body\/recipe\.json, field `body`: Body plan file not found or unreadable: .*\/body\/bodies\/none\.json \(ENOENT\)\n$/));
+
+  it('a body plan with a segment 1e9 m from the torso, naming the file and the field', () =>
+    expectRefused('far-segment', (cwd, out) => {
+      const bad = JSON.parse(readFileSync(recipe, 'utf8')) as Record<string, string>;
+      const plan = JSON.parse(readFileSync(bad.body, 'utf8')) as { segments: { position: number[] }[] };
+      plan.segments[1].position = [1e9, 0];
+      writeFileSync(join(root, 'far.json'), JSON.stringify(plan)); // outside cwd, which must stay empty
+      writeFileSync(join(cwd, 'recipe.json'), JSON.stringify({ ...bad, body: join(root, 'far.json') }));
+      return [join(cwd, 'recipe.json'), '--out', out];
+    }, /field `body`: Body plan .*far\.json is not valid:\n {2}- .*far\.json: segments\[1\]\.position: expected within 10 m of the torso centre/));
 
   it('an --out directory that already holds something, which is left as it was', async () => {
     const out = join(root, 'taken');

@@ -30,7 +30,7 @@ export function tempDir(label: string): string {
 type Sections = Record<string, Record<string, unknown>>;
 
 /**
- * Writes a recipe derived from runs/smoke.json into `dir` and returns its path: 4 ES pairs,
+ * Writes a recipe derived from runs/smoke.json into `dir` and returns its path: ES population 8,
  * 200-step episodes, 6 iterations, admission every 2 and transfer every 3 iterations with a
  * band wide enough that courses are admitted, retired and taken over within those 6 (so the
  * state and the event log carry more than one kind of record). `changes` replaces fields per section.
@@ -38,7 +38,7 @@ type Sections = Record<string, Record<string, unknown>>;
 export function writeTinyRecipe(dir: string, changes: Sections = {}, file = 'tiny.json'): string {
   const smoke = JSON.parse(readFileSync(join(ROOT, 'runs/smoke.json'), 'utf8')) as Record<string, unknown> & Sections;
   const base: Sections = {
-    es: { ...smoke.es, pairs: 4 },
+    es: { ...smoke.es, population: 8 },
     episode: { ...smoke.episode, maxSteps: 200 },
     admission: { ...smoke.admission, interval: 2, reproduceAbove: 0, candidates: 4, low: 0 },
     transfer: { ...smoke.transfer, interval: 3 },

@@ -83,6 +83,7 @@ describe('drive when a log cannot be appended to', () => {
     const events = join(inputs.dir, EVENTS);
     // Iteration 1 logs no events in this recipe (no admission or transfer yet); iteration 2
     // admits courses, so its append is the first to meet the obstacle.
+    rmSync(events); // created empty with the run directory; a folder takes its place
     mkdirSync(events);
     const { error, finished } = await driveUntilFailure(inputs, state);
     expect(error).toBeInstanceOf(WriteError);

@@ -177,7 +177,7 @@ describe('buildCourse feature geometry (known values)', () => {
   /** Step heights the builder keeps as a vertical face (steps under MIN_EDGE are smoothed, see below). */
   const fullStep = fc.double({ min: MIN_EDGE, max: 0.5, noNaN: true }).chain((a) => fc.constantFrom(a, -a));
 
-  it('digs a pit of pitDepth under a gap, at the level where the gap sits', () => {
+  it('digs a pit of gapDepth under a gap, at the level where the gap sits', () => {
     fc.assert(
       fc.property(
         fc.double({ min: 0.1, max: 1.2, noNaN: true }),
@@ -185,7 +185,7 @@ describe('buildCourse feature geometry (known values)', () => {
         fc.oneof(fc.constant(0), fullStep),
         (w, x, h) => {
           const course = buildCourse(genome([{ kind: 'step', x: 5, height: h }, { kind: 'gap', x, width: w }]), fam);
-          expect(groundHeightAt(course, x + w / 2)).toBeCloseTo(h - fam.pitDepth, 12);
+          expect(groundHeightAt(course, x + w / 2)).toBeCloseTo(h - fam.gapDepth, 12);
           expect(groundHeightAt(course, x - 0.5)).toBeCloseTo(h, 12);
           expect(groundHeightAt(course, x + w + 0.5)).toBeCloseTo(h, 12);
         },
@@ -214,7 +214,7 @@ describe('buildCourse feature geometry (known values)', () => {
         const after = groundHeightAt(course, (x + 25) / 2);
         expect(Math.abs(after)).toBeLessThanOrEqual(Math.abs(h));
         expect(groundHeightAt(course, 24.999)).toBeCloseTo(h, 4);
-        expect(groundHeightAt(course, 25.25)).toBeCloseTo(h - fam.pitDepth, 12);
+        expect(groundHeightAt(course, 25.25)).toBeCloseTo(h - fam.gapDepth, 12);
       }),
       RUNS,
     );

@@ -101,8 +101,8 @@ describe('parseFamily rejects with a UserError naming the field path', () => {
     delete a.kinds.slope.grade;
     expectProblemAt(a, 'kinds.slope', 'grade');
     const b = rawFamily('starter');
-    delete b.pitDepth;
-    expectProblemAt(b, 'pitDepth');
+    delete b.gapDepth;
+    expectProblemAt(b, 'gapDepth');
   });
 
   it('a non-positive gap width, a negative roughness and a fractional maxFeatures', () => {

@@ -1,11 +1,11 @@
-import { dirname, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import type { Command } from 'commander';
+import { plural } from '../../core/index.js';
 import { benchCheckpoint, benchLearning, benchPool, benchQueue, benchRollouts, benchScaling, benchScene, benchSoak, startRedis, type QueueBench } from '../../bench/index.js';
 import { defaultWorkerCount, makeEvaluator, threads } from '../../pool/index.js';
 import { intIn } from '../options.js';
 import { InvalidArgumentError } from 'commander';
 import { Progress } from '../progress.js';
+import { PACKAGE_ROOT } from '../shipped.js';
 
 interface BenchOptions { json?: boolean; quick?: boolean; scaling?: number[]; quiet?: boolean; learn?: number; checkpoint?: string; soak?: number; workers: number; queue?: string | true; queueCores?: number }
 
@@ -18,7 +18,7 @@ function counts(v: string): number[] {
 const fmt = (x: number, d = 0): string => x.toLocaleString('en-US', { maximumFractionDigits: d, minimumFractionDigits: d });
 
 async function benchAction(o: BenchOptions): Promise<void> {
-  const root = resolve(dirname(fileURLToPath(import.meta.url)), '../../..');
+  const root = PACKAGE_ROOT;
   const progress = new Progress(o.quiet === true || o.json === true, 0);
   const scene = benchScene(root);
   const rounds = o.quick ? 3 : 15;
@@ -95,7 +95,7 @@ async function extras(o: BenchOptions, root: string, progress: Progress): Promis
   const evaluator = makeEvaluator(threads(o.workers));
   try {
     if (o.learn) {
-      progress.update(`learning to walk, ${o.learn} seeds...`, true);
+      progress.update(`learning to walk, ${plural(o.learn, 'seed')}...`, true);
       const l = await benchLearning(root, Array.from({ length: o.learn }, (_, i) => i + 1), 0.9, 200, evaluator);
       json.learning = l;
       rows.push(['learn to walk (progress 0.9), iterations', `median ${l.medianIterations}, worst ${l.worstIterations} (${l.runs.map((x) => x.iterations).join(', ')})`, '']);
@@ -108,7 +108,7 @@ async function extras(o: BenchOptions, root: string, progress: Progress): Promis
       rows.push(['checkpoint write', `${fmt(c.writeMs, 1)} ms for ${fmt(c.checkpointBytes / 1024)} KiB; iteration ${fmt(c.iterationMs)} ms; share ${fmt(100 * c.share, 2)}%`, 'target < 2%']);
     }
     if (o.soak) {
-      progress.update(`memory over ${o.soak} iterations of runs/smoke.json...`, true);
+      progress.update(`memory over ${plural(o.soak, 'iteration')} of runs/smoke.json...`, true);
       const s = await benchSoak(`${root}/runs/smoke.json`, evaluator, o.soak);
       json.soak = { iterations: s.iterations, growthAfterWarmupMiB: s.growthAfterWarmupMiB, rssMiB: s.rssMiB.map((x) => Math.round(x * 10) / 10) };
       const q = (f: number): string => fmt(s.rssMiB[Math.min(s.rssMiB.length - 1, Math.floor(f * s.rssMiB.length))], 1);

@@ -4,15 +4,14 @@ import { stream, UserError } from '../../core/index.js';
 import { makeEvaluator, threads, sceneBatch } from '../../pool/index.js';
 import { initParams, type PolicyShape } from '../../policy/index.js';
 import { assertPolicyFits, defaultRolloutOptions } from '../../sim/index.js';
-import { loadWalker, writeFileAtomic } from '../../store/index.js';
+import { writeFileAtomic } from '../../store/index.js';
 import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
 import { hiddenSizes, intIn, oneOf } from '../options.js';
-import { bodyOf, courseOf, findCourse, loadCurriculum, loadSafetensorsWalker, rolloutOptionsOf, walkerRefOf } from '../../export/index.js';
-
-const DEFAULT_BODY = 'envs/bodies/trestle.json';
+import { bodyOf, courseOf, findCourse, loadAnyWalker, loadCurriculum, loadSafetensorsWalker, rolloutOptionsOf, walkerRefOf } from '../../export/index.js';
+import { DEFAULT_BODY, DEFAULT_TERRAIN, shipped } from '../shipped.js';
 
 interface EvalOptions {
-  terrain: string; family?: string; body: string; walker?: string; seed: number; hidden: number[];
+  terrain?: string; family?: string; body?: string; walker?: string; seed: number; hidden: number[];
   activation: 'tanh' | 'relu' | 'linear'; steps: number; json?: boolean; trace?: string; workers?: number;
   curriculum?: string; course?: number;
 }
@@ -22,7 +21,7 @@ async function evalCurriculum(o: EvalOptions): Promise<void> {
   if (o.course === undefined) throw new UserError('--curriculum needs --course ID');
   const cur = loadCurriculum(o.curriculum!);
   const entry = findCourse(cur, o.course);
-  const plan = o.body === DEFAULT_BODY ? bodyOf(cur) : loadBodyPlan(o.body);
+  const plan = o.body === undefined ? bodyOf(cur) : loadBodyPlan(o.body);
   const ref = walkerRefOf(cur, entry);
   const w = o.walker ? loadSafetensorsWalker(o.walker) : loadSafetensorsWalker(ref.path, ref.sha256);
   assertPolicyFits(w.shape, plan, o.walker ?? ref.path);
@@ -45,16 +44,17 @@ async function evalCurriculum(o: EvalOptions): Promise<void> {
 
 async function evalAction(o: EvalOptions): Promise<void> {
   if (o.curriculum !== undefined) return evalCurriculum(o);
-  const src = loadTerrainSource(o.terrain, o.family);
+  const src = loadTerrainSource(o.terrain ?? shipped(DEFAULT_TERRAIN), o.family);
   const course = buildCourse(src.genome, src.family);
-  const walker = o.walker ? loadWalker(o.walker) : undefined;
-  const plan = loadBodyPlan(o.body);
-  if (walker && walker.bodyName !== plan.name) {
-    throw new UserError(`Walker ${o.walker} was made for body plan "${walker.bodyName}", but --body ${o.body} is "${plan.name}"`);
+  const walker = o.walker ? loadAnyWalker(o.walker) : undefined;
+  const bodyPath = o.body ?? shipped(DEFAULT_BODY);
+  const plan = loadBodyPlan(bodyPath);
+  if (walker?.bodyName !== undefined && walker.bodyName !== plan.name) {
+    throw new UserError(`Walker ${o.walker} was made for body plan "${walker.bodyName}", but --body ${bodyPath} is "${plan.name}"`);
   }
   const shape: PolicyShape = walker?.shape ?? { inputs: observationSize(plan), hidden: o.hidden, outputs: actionSize(plan), activation: o.activation };
   assertPolicyFits(shape, plan, String(o.walker));
-  const params = walker ? walker.params : Array.from(initParams(shape, stream(o.seed, 'walker/init')));
+  const params = walker ? Array.from(walker.params) : Array.from(initParams(shape, stream(o.seed, 'walker/init')));
   const batch = sceneBatch(course, plan, shape, { ...defaultRolloutOptions(), maxSteps: o.steps, traceEvery: o.trace ? 5 : 0 }, params);
   const evaluator = makeEvaluator(threads(o.workers ?? 0));
   try {
@@ -77,10 +77,10 @@ export function registerEval(program: Command): void {
   program
     .command('eval')
     .description('run one rollout of a walker on a course and print progress, fitness, steps and whether it fell')
-    .option('--terrain <file>', 'terrain family (its start genome) or genome file', 'envs/terrain/starter.json')
+    .option('--terrain <file>', `terrain family (its start genome) or genome file (default: cairn's ${DEFAULT_TERRAIN})`)
     .option('--family <file>', 'terrain family of a bare genome file')
-    .option('--body <file>', 'body plan (with --curriculum: the exported one)', DEFAULT_BODY)
-    .option('--walker <file>', 'walker file (weights); without it a walker is initialised from --seed')
+    .option('--body <file>', `body plan (default: cairn's ${DEFAULT_BODY}; with --curriculum the exported one)`)
+    .option('--walker <file>', 'walker: cairn walker JSON or exported .safetensors; without it a walker is initialised from --seed')
     .option('--seed <n>', 'seed of a random walker', intIn(0, 2 ** 31 - 1), 1)
     .option('--hidden <sizes>', 'hidden layer sizes of a random walker, e.g. 32,32 (none = linear)', hiddenSizes, [])
     .option('--activation <name>', 'hidden activation of a random walker', oneOf(['tanh', 'relu', 'linear'] as const), 'tanh')

@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { plural } from '../../core/index.js';
 import type { Only, Order } from '../../export/index.js';
 import { exportRun, Run } from '../../run/index.js';
 import { oneOf } from '../options.js';
@@ -11,7 +12,7 @@ function exportAction(dir: string, o: ExportOptions): void {
   for (const s of skipped) process.stderr.write(`cairn: skipped checkpoint ${s.file}: ${s.reason}; exporting an older one\n`);
   const r = exportRun(run, state, o.out, o.order, o.only);
   if (o.json) process.stdout.write(`${JSON.stringify({ ...r, iteration: state.iteration })}\n`);
-  else process.stdout.write(`exported ${r.courses} courses and ${r.walkers} walkers (iteration ${state.iteration}) to ${r.dir}\n`);
+  else process.stdout.write(`exported ${plural(r.courses, 'course')} and ${plural(r.walkers, 'walker')} (iteration ${state.iteration}) to ${r.dir}\n`);
 }
 
 export function registerExport(program: Command): void {

@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { plural } from '../../core/index.js';
 import { Run, writeReport, writeStrobe } from '../../run/index.js';
 import { backendOf, workersOption } from '../backend.js';
 import { intIn } from '../options.js';
@@ -8,7 +9,7 @@ interface ReportOptions { out?: string; workers: number; quiet?: boolean }
 async function reportAction(dir: string, o: ReportOptions): Promise<void> {
   const run = Run.open(dir);
   const { state } = run.latest();
-  if (!o.quiet) process.stderr.write(`replaying ${state.courses.length} courses...\n`);
+  if (!o.quiet) process.stderr.write(`replaying ${plural(state.courses.length, 'course')}...\n`);
   const out = await writeReport(run, state, o.out, backendOf(o));
   process.stdout.write(`report of iteration ${state.iteration} written to ${out}\n`);
 }

@@ -5,7 +5,8 @@ import type { BackendStatus } from '../../pool/index.js';
 import { backendOf, backendOptions, type BackendFlags } from '../backend.js';
 import { EXIT } from '../fail.js';
 import { intIn, numberIn } from '../options.js';
-import { formatDuration, plural, Progress } from '../progress.js';
+import { plural } from '../../core/index.js';
+import { formatDuration, Progress } from '../progress.js';
 import { installStopHandlers } from '../signals.js';
 
 interface LoopOptions extends BackendFlags { quiet?: boolean }

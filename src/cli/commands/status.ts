@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { Run, runStatus } from '../../run/index.js';
 import { DESCRIPTOR_NAMES } from '../../terrain/index.js';
-import { plural } from '../progress.js';
+import { plural } from '../../core/index.js';
 
 interface StatusOptions { json?: boolean }
 
@@ -22,7 +22,7 @@ function statusAction(dir: string, o: StatusOptions): void {
   const lines = [
     `run ${run.dir}`,
     `iteration ${state.iteration} of ${s.targetIterations}; ${plural(s.activePairs, 'active pair')}; ${plural(s.admitted, 'course')} admitted; ${s.archived} archived; ${s.solved} solved; ${plural(s.takeovers, 'takeover')}`,
-    `hardest solved course: difficulty ${s.hardestSolved.toFixed(3)}; rollouts ${s.rollouts.toLocaleString('en-US')}`,
+    `hardest solved course: ${s.hardestSolved === null ? 'none' : `difficulty ${s.hardestSolved.toFixed(3)}`}; rollouts ${s.rollouts.toLocaleString('en-US')}`,
     `fingerprint ${s.fingerprint}`,
     '',
     `${'course'.padEnd(7)}${'parent'.padEnd(8)}${'age'.padEnd(6)}${'walker'.padEnd(8)}${'progress'.padEnd(10)}${'solved'.padEnd(8)}${'difficulty'.padEnd(12)}features`,

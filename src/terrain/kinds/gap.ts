@@ -8,8 +8,8 @@ export const gap: KindDef = {
   footprint: (f) => num(f, 'width'),
   build(f, level, b) {
     const w = num(f, 'width');
-    b.point(f.x, level - b.pitDepth);
-    b.point(f.x + w, level - b.pitDepth);
+    b.point(f.x, level - b.gapDepth);
+    b.point(f.x + w, level - b.gapDepth);
     b.point(f.x + w, level);
     return level;
   },

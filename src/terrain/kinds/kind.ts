@@ -9,7 +9,7 @@ export interface CourseBuilder {
   /** Adds a static convex obstacle, flat [x0, y0, ...], counter-clockwise. */
   obstacle(poly: number[]): void;
   /** Depth of gap pits, m. */
-  readonly pitDepth: number;
+  readonly gapDepth: number;
 }
 
 /** The ranges a family gives one kind's fields, by field name. */

@@ -1,4 +1,9 @@
-{
+/**
+ * The curriculum JSON Schema (draft 2020-12). It is a module rather than a .json file read at
+ * run time so that it is compiled into dist/ with the rest of cairn: an installed package
+ * never needs src/. `cairn export` writes it beside each curriculum as curriculum.schema.json.
+ */
+export const CURRICULUM_SCHEMA: Readonly<Record<string, unknown>> = {
   "$schema": "https://json-schema.org/draft/2020-12/schema",
   "$id": "urn:cairn:curriculum:1",
   "title": "cairn curriculum",
@@ -181,4 +186,4 @@
       }
     }
   }
-}
+};
