@@ -81,22 +81,26 @@ export class ScheduledEvaluator implements Evaluator {
   private start(cur: Current, job: Job): void {
     cur.inFlight++;
     let settled = false;
-    let running: RunningJob | null = null;
-    const timer = Number.isFinite(this.timeoutMs)
-      ? setTimeout(() => {
-        if (settled) return;
-        settled = true;
-        running?.abandon();
-        this.lost(cur, job, `task timed out after ${(this.timeoutMs * job.items.length) / 1000} s`);
-      }, this.timeoutMs * job.items.length)
-      : null;
+    let timer: NodeJS.Timeout | null = null;
     const finish = (fn: () => void): void => {
       if (settled) return;
       settled = true;
       if (timer) clearTimeout(timer);
       fn();
     };
-    running = this.transport.run(cur.ref, job.items);
+    const running = this.transport.run(cur.ref, job.items);
+    // The time limit counts from when the job reaches whatever runs it, not while it waits for
+    // a thread to be started.
+    const arm = (): void => {
+      if (settled || !Number.isFinite(this.timeoutMs)) return;
+      const ms = this.timeoutMs * job.items.length;
+      timer = setTimeout(() => finish(() => {
+        running.abandon();
+        this.lost(cur, job, `task timed out after ${ms / 1000} s`);
+      }), ms);
+    };
+    if (running.started) void running.started.then(arm);
+    else arm();
     running.result.then(
       (results) => finish(() => this.done(cur, job, results)),
       (e: Error & { fatal?: boolean }) => finish(() => (e.fatal ? this.fatal(cur, e) : this.lost(cur, job, e.message))),

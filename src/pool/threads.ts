@@ -6,6 +6,7 @@ import Pool from 'worker-threads-pool';
 import type { RolloutResult } from '../sim/index.js';
 import type { FromWorker, ToWorker } from './messages.js';
 import { ScheduledEvaluator, type SchedulerOptions } from './scheduler.js';
+import type { BatchTables } from './task.js';
 import type { BatchRef, JobItem, RunningJob, Transport } from './transport.js';
 
 /** Compiled worker script. Under a TypeScript test runner this module is the .ts source, so point at the build. */
@@ -19,8 +20,16 @@ export interface ThreadOptions extends SchedulerOptions {
   readonly workerFile?: string;
 }
 
-interface Pending { readonly batch: BatchRef; readonly items: readonly JobItem[]; readonly job: number; settle: { resolve(r: RolloutResult[]): void; reject(e: Error): void } }
-interface Slot { worker: Worker; job: Pending | null; tablesFor: number; dead: boolean }
+interface Pending { readonly batch: BatchRef; readonly items: readonly JobItem[]; readonly job: number; settle: { resolve(r: RolloutResult[]): void; reject(e: Error): void }; readonly dispatched: () => void }
+interface Slot { worker: Worker; job: Pending | null; tablesFor: number; tables: BatchTables | null; dead: boolean }
+
+/**
+ * Whether two batches share their tables (the same arrays): a queue worker evaluates many jobs
+ * of one batch as separate batches, and the thread already holds their tables.
+ */
+function sameTables(a: BatchTables, b: BatchTables): boolean {
+  return a.courses === b.courses && a.plans === b.plans && a.shapes === b.shapes && a.options === b.options && a.bases === b.bases;
+}
 
 /**
  * Persistent worker threads fed jobs by message. Threads are acquired once from
@@ -58,7 +67,7 @@ export class ThreadTransport implements Transport {
   private spawn(): void {
     this.pool.acquire(this.file, (err, worker) => {
       if (err) throw err;
-      const slot: Slot = { worker, job: null, tablesFor: -1, dead: false };
+      const slot: Slot = { worker, job: null, tablesFor: -1, tables: null, dead: false };
       worker.on('message', (m: FromWorker) => this.onDone(slot, m));
       worker.on('error', (e) => this.onFailure(slot, `worker threw: ${e.message}`));
       worker.on('exit', (code) => this.onFailure(slot, `worker exited with code ${code}`));
@@ -75,8 +84,10 @@ export class ThreadTransport implements Transport {
 
   run(batch: BatchRef, items: readonly JobItem[]): RunningJob {
     let pending: Pending;
+    let dispatched: () => void = () => undefined;
+    const started = new Promise<void>((r) => { dispatched = r; });
     const result = new Promise<RolloutResult[]>((resolve, reject) => {
-      pending = { batch, items, job: this.jobCounter++, settle: { resolve, reject } };
+      pending = { batch, items, job: this.jobCounter++, settle: { resolve, reject }, dispatched };
     });
     if (this.closed) pending!.settle.reject(new Error('worker threads are closed'));
     else {
@@ -85,6 +96,7 @@ export class ThreadTransport implements Transport {
     }
     return {
       result,
+      started,
       abandon: () => {
         const i = this.waiting.indexOf(pending);
         if (i >= 0) this.waiting.splice(i, 1);
@@ -99,13 +111,15 @@ export class ThreadTransport implements Transport {
       if (this.waiting.length === 0) return;
       if (slot.job || slot.dead) continue;
       const p = this.waiting.shift()!;
-      if (slot.tablesFor !== p.batch.id) {
+      if (slot.tablesFor !== p.batch.id && !(slot.tables && sameTables(slot.tables, p.batch.tables))) {
         this.post(slot, { type: 'tables', batch: p.batch.id, tables: p.batch.tables });
         slot.tablesFor = p.batch.id;
+        slot.tables = p.batch.tables;
       }
       slot.job = p;
       slot.worker.ref();
-      this.post(slot, { type: 'run', batch: p.batch.id, job: p.job, items: p.items });
+      this.post(slot, { type: 'run', batch: slot.tablesFor, job: p.job, items: p.items });
+      p.dispatched();
     }
   }
 

@@ -19,6 +19,8 @@ export interface RunningJob {
   readonly result: Promise<RolloutResult[]>;
   /** Gives the job up after it overran its time (a thread running it is stopped). */
   abandon(): void;
+  /** Resolves when the job reaches whatever runs it (absent: at once); its time limit counts from then. */
+  readonly started?: Promise<void>;
 }
 
 /**

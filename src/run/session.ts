@@ -1,7 +1,7 @@
 import type { RunState, StepOutcome } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
-import { makeEvaluator, type Backend, type BackendStatus, type PoolEvent } from '../pool/index.js';
-import { logPoolEvent, openRunDir, removeStaleTemps, takeLock, truncateLogs, type RunOverrides } from '../store/index.js';
+import { describeBackend, makeEvaluator, type Backend, type BackendStatus, type PoolEvent } from '../pool/index.js';
+import { clearLive, logPoolEvent, openRunDir, removeStaleTemps, takeLock, truncateLogs, writeLive, type RunOverrides } from '../store/index.js';
 import { loop, type StopReason } from './loop.js';
 import { Run } from './run.js';
 
@@ -43,8 +43,27 @@ async function drive(run: Run, start: RunState, backend: Backend, hooks: Session
     hooks.note?.(`job lost (${e.reason}); tasks ${e.tasks.join(', ')} re-run`);
   };
   const evaluator = makeEvaluator(backend, { onEvent });
-  const ticker = hooks.onStatus && evaluator.status ? setInterval(() => hooks.onStatus!(evaluator.status!()), 1000) : null;
-  ticker?.unref();
+  const where = describeBackend(backend);
+  let ticks = 0;
+  let lastWaiting: string | undefined;
+  const tick = (): void => {
+    const s = evaluator.status?.() ?? {};
+    hooks.onStatus?.(s);
+    // live.json for `cairn status`: every 5 s, and at once when what the run waits for changes.
+    const waiting = s.waiting?.replace(/\d+/g, '#');
+    const changed = waiting !== lastWaiting;
+    lastWaiting = waiting;
+    if (ticks++ % 5 === 0 || changed) {
+      try {
+        writeLive(run.dir, { pid: process.pid, updated: new Date().toISOString(), backend: where, ...s });
+      } catch {
+        // A failed write must not stop the run; the next tick tries again.
+      }
+    }
+  };
+  tick();
+  const ticker = setInterval(tick, 1000);
+  ticker.unref();
   try {
     const { budget } = run.inputs.recipe;
     const { state, reason } = await loop(run, start, {
@@ -53,7 +72,8 @@ async function drive(run: Run, start: RunState, backend: Backend, hooks: Session
     });
     return { run, state, reason, startIteration: start.iteration };
   } finally {
-    if (ticker) clearInterval(ticker);
+    clearInterval(ticker);
+    clearLive(run.dir);
     await evaluator.close();
   }
 }

@@ -5,7 +5,7 @@ import { UserError } from '../core/index.js';
 import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
 import { initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
-import { writeFileAtomic, type SkippedCheckpoint } from '../store/index.js';
+import { readLive, writeFileAtomic, type LiveRecord, type SkippedCheckpoint } from '../store/index.js';
 import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
 
@@ -19,6 +19,8 @@ export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved'> {
   readonly fingerprint: string;
   readonly targetIterations: number;
   readonly skippedCheckpoints: number;
+  /** While a process runs the run: where rollouts run, connected workers, rollouts per second (null otherwise). */
+  readonly live: LiveRecord | null;
 }
 
 export interface PairRow {
@@ -32,7 +34,7 @@ export interface PairRow {
 export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCheckpoint[]): { status: RunStatus; pairs: PairRow[] } {
   const metrics = run.metrics(state);
   const beyondStart = state.courses.some((c) => c.solvedAt !== null && c.parent !== null);
-  const status = { ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length };
+  const status = { ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length, live: readLive(run.dir) };
   const pairs = state.pairs.map((p) => {
     const course = state.courses.find((r) => r.id === p.courseId)!;
     return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: difficulty(course.genome, run.inputs.family) };

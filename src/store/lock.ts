@@ -38,3 +38,14 @@ export function takeLock(dir: string): { release: () => void; note: string | nul
   }
   throw new UserError(`Could not take the lock ${path}`);
 }
+
+/** The pid of the live process holding the run directory's lock, or null when none does. */
+export function lockOwner(dir: string): number | null {
+  let pid: number;
+  try {
+    pid = Number.parseInt(readFileSync(join(dir, LOCK), 'utf8'), 10);
+  } catch {
+    return null;
+  }
+  return Number.isInteger(pid) && processAlive(pid) ? pid : null;
+}

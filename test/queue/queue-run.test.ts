@@ -61,10 +61,14 @@ describe('a run over the queue', () => {
     const out = join(root, 'late-worker');
     const run = startCli(['run', recipe, '--out', out, '--queue', redis.url]);
     await waitFor('the run to say no worker is connected', () => /no worker connected to queue "cairn" at redis:\/\/127\.0\.0\.1/.test(run.out().stderr), 60_000);
+    // status reads what the running process says about itself.
+    const live = (await cliOk(['status', out, '--json'])).stdout;
+    expect(JSON.parse(live).live).toMatchObject({ pid: run.child.pid, backend: expect.stringMatching(/^queue "cairn" at redis:\/\/127\.0\.0\.1:\d+\/0$/), workers: 0, waiting: expect.stringMatching(/no worker connected/) });
     await worker(redis.url);
     const r = await run.done;
     expect(r.code, r.stderr).toBe(0);
     expect((await status(out)).fingerprint).toBe(reference);
+    expect(JSON.parse((await cliOk(['status', out, '--json'])).stdout).live).toBeNull();
   }, SLOW);
 
   it('survives a worker killed with SIGKILL mid-job: its job goes back to the queue (BullMQ stalled jobs) and runs elsewhere, same fingerprint', async () => {

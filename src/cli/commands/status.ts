@@ -1,5 +1,6 @@
 import type { Command } from 'commander';
 import { Run, runStatus } from '../../run/index.js';
+import type { LiveRecord } from '../../store/index.js';
 import { DESCRIPTOR_NAMES } from '../../terrain/index.js';
 import { plural } from '../../core/index.js';
 
@@ -9,6 +10,14 @@ interface StatusOptions { json?: boolean }
 function highlights(d: readonly number[]): string {
   const parts = d.flatMap((v, i) => (v > 0 && DESCRIPTOR_NAMES[i] !== 'count' ? [`${DESCRIPTOR_NAMES[i]} ${v.toFixed(2)}`] : []));
   return parts.length > 0 ? parts.join(', ') : 'flat';
+}
+
+/** "running (pid 812) on queue "cairn" at redis://…: 3 workers (48 threads), 912 rollouts/s", or "not running". */
+function liveLine(l: LiveRecord | null): string {
+  if (!l) return 'not running';
+  const who = l.workers !== undefined ? `${plural(l.workers, 'worker')} (${plural(l.threads ?? 0, 'thread')}), ` : '';
+  const now = l.waiting ?? `${who}${Math.round(l.rolloutsPerSecond ?? 0)} rollouts/s`;
+  return `running (pid ${l.pid}) on ${l.backend}: ${now} (as of ${l.updated})`;
 }
 
 function statusAction(dir: string, o: StatusOptions): void {
@@ -24,6 +33,7 @@ function statusAction(dir: string, o: StatusOptions): void {
     `iteration ${state.iteration} of ${s.targetIterations}; ${plural(s.activePairs, 'active pair')}; ${plural(s.admitted, 'course')} admitted; ${s.archived} archived; ${s.solved} solved; ${plural(s.takeovers, 'takeover')}`,
     `hardest solved course: ${s.hardestSolved === null ? 'none' : `difficulty ${s.hardestSolved.toFixed(3)}`}; rollouts ${s.rollouts.toLocaleString('en-US')}`,
     `fingerprint ${s.fingerprint}`,
+    liveLine(s.live),
     '',
     `${'course'.padEnd(7)}${'parent'.padEnd(8)}${'age'.padEnd(6)}${'walker'.padEnd(8)}${'progress'.padEnd(10)}${'solved'.padEnd(8)}${'difficulty'.padEnd(12)}features`,
   ];
