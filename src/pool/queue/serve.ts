@@ -42,15 +42,22 @@ export async function serveQueue(o: ServeOptions): Promise<QueueWorker> {
   const conn = redisOptions(o.address);
   const control = new Redis(conn);
   let lost = false;
+  let connected = false;
   let closing = false;
-  control.on('error', () => undefined);
+  let saidUnreachable = false;
+  control.on('error', (e: Error & { code?: string }) => {
+    // Before the first connection: say once that the worker waits (systemd may start it before Redis).
+    if (!connected && !saidUnreachable) o.log(`cannot reach Redis at ${o.address.display} (${e.code ?? e.message}); retrying every 2 s`);
+    saidUnreachable = true;
+  });
   control.on('close', () => {
-    if (!lost && !closing) o.log(`lost Redis at ${o.address.display}; reconnecting`);
-    lost = true;
+    if (connected && !lost && !closing) o.log(`lost Redis at ${o.address.display}; reconnecting`);
+    lost = connected;
   });
   control.on('ready', () => {
     if (lost) o.log(`Redis at ${o.address.display} is back`);
     lost = false;
+    connected = true;
   });
   const id = `${hostname()}:${process.pid}`;
   const info = JSON.stringify({ host: hostname(), pid: process.pid, threads: o.threads, versions: writerVersions() });

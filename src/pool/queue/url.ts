@@ -26,7 +26,8 @@ export function parseRedisUrl(text: string, where = '--queue'): RedisAddress {
   if (path !== '' && !/^\d{1,2}$/.test(path)) throw new UserError(`${where}: expected a database number after the host (e.g. /0), found "/${path}"`);
   const db = path === '' ? 0 : Number(path);
   if (u.search !== '' || u.hash !== '') throw new UserError(`${where}: the URL takes no query or fragment`);
-  const display = `redis://${u.hostname.includes(':') ? `[${u.hostname}]` : u.hostname}:${port}/${db}`;
+  // URL keeps the brackets of an IPv6 host in `hostname`: the display form keeps them, ioredis gets the bare address.
+  const display = `redis://${u.hostname}:${port}/${db}`;
   return {
     host: u.hostname.replace(/^\[|\]$/g, ''), port, db, display,
     ...(u.username ? { username: decodeURIComponent(u.username) } : {}),
