@@ -66,7 +66,8 @@ function lineage(d: ReportData): string {
   const nodes = placed.map((p) => {
     const c = byId.get(p.id)!;
     const cls = c.solvedAt !== null ? 'solved' : c.status;
-    const tip = `course ${c.id}, admitted at ${c.admittedAt}${c.solvedAt !== null ? `, solved at ${c.solvedAt}` : ', not solved'}`;
+    const from = c.source ? `, branched from course ${c.source.courseId} of run ${c.source.fingerprint.slice(0, 12)}` : '';
+    const tip = `course ${c.id}, admitted at ${c.admittedAt}${c.solvedAt !== null ? `, solved at ${c.solvedAt}` : ', not solved'}${from}`;
     return `<g class="node ${cls}" data-course="${c.id}" transform="translate(${n(p.x)} ${n(p.y)})"><title>${esc(tip)}</title><circle r="11"/><text text-anchor="middle" y="3.5">${c.id}</text></g>`;
   });
   return `<svg id="lineage-svg" viewBox="0 0 ${n(w)} ${n(h)}" width="${n(w)}" height="${n(h)}">${edges.join('')}${nodes.join('')}</svg>`;

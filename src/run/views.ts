@@ -21,6 +21,8 @@ export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved'> {
   readonly skippedCheckpoints: number;
   /** While a process runs the run: where rollouts run, connected workers, rollouts per second (null otherwise). */
   readonly live: LiveRecord | null;
+  /** For a branched run: where each starting course came from (path as given, source fingerprint, course id there). */
+  readonly sources?: readonly { readonly courseId: number; readonly path: string; readonly fingerprint: string; readonly sourceCourseId: number; readonly clipped: boolean }[];
 }
 
 export interface PairRow {
@@ -34,7 +36,12 @@ export interface PairRow {
 export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCheckpoint[]): { status: RunStatus; pairs: PairRow[] } {
   const metrics = run.metrics(state);
   const beyondStart = state.courses.some((c) => c.solvedAt !== null && c.parent !== null);
-  const status = { ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length, live: readLive(run.dir) };
+  const { sources, sourcePaths } = run.inputs;
+  const lineage = sources.map((s, i) => ({ courseId: i, path: sourcePaths[i] ?? '?', fingerprint: s.fingerprint, sourceCourseId: s.courseId, clipped: s.clipped }));
+  const status = {
+    ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations,
+    skippedCheckpoints: skipped.length, live: readLive(run.dir), ...(lineage.length > 0 ? { sources: lineage } : {}),
+  };
   const pairs = state.pairs.map((p) => {
     const course = state.courses.find((r) => r.id === p.courseId)!;
     return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: difficulty(course.genome, run.inputs.family) };

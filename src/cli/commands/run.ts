@@ -63,11 +63,14 @@ async function session(o: LoopOptions, go: (hooks: SessionHooks) => Promise<Sess
   }
 }
 
-interface RunOptions extends LoopOptions { out?: string; seed?: number; iterations?: number; minutes?: number }
+interface RunOptions extends LoopOptions { out?: string; seed?: number; iterations?: number; minutes?: number; from: string[]; clip?: boolean; set: string[] }
 
 async function runAction(recipePath: string, o: RunOptions): Promise<void> {
-  await session(o, (hooks) => startRun(recipePath, o.out, { seed: o.seed, iterations: o.iterations, minutes: o.minutes }, backendOf(o), hooks));
+  const overrides = { seed: o.seed, iterations: o.iterations, minutes: o.minutes, sets: o.set, from: o.from.length > 0 ? o.from : undefined, clip: o.clip };
+  await session(o, (hooks) => startRun(recipePath, o.out, overrides, backendOf(o), hooks));
 }
+
+const collect = (v: string, prev: string[]): string[] => [...prev, v];
 
 interface ResumeOptions extends LoopOptions { iterations?: number; minutes?: number }
 
@@ -85,6 +88,9 @@ export function registerRun(program: Command): void {
     .option('--seed <n>', 'override the recipe seed', intIn(0, 2 ** 31 - 1))
     .option('--iterations <n>', 'total iterations to reach', intIn(1, 100_000_000))
     .option('--minutes <m>', 'stop cleanly after this many minutes', numberIn(0, 1e7))
+    .option('--set <path=value>', 'override a recipe field, e.g. es.sigma=0.03 (repeatable; checked like the recipe)', collect, [])
+    .option('--from <source:course>', 'branch: start from this course of a run directory or export, with its walker (repeatable)', collect, [])
+    .option('--clip', 'with --from: clamp a genome outside the recipe family\'s bounds instead of refusing it')
     .option('--quiet', 'no progress on stderr')
     .action(runAction);
   const resume = program
