@@ -6,3 +6,7 @@ export { startRun, resumeRun } from './session.js';
 export type { SessionHooks, SessionResult, ResumeOptions } from './session.js';
 export { runStatus, writeReport, writeStrobe, exportRun } from './views.js';
 export type { RunStatus, PairRow } from './views.js';
+export { openSource, sourceCourse, parseSourceSpec } from './sources.js';
+export type { Source, SourceCourse, SourceWalker } from './sources.js';
+export { misfit, namedCourse, repertoire, lookup, compareRows } from './scene.js';
+export type { RepertoireWalker, LookupRow, LookupResult } from './scene.js';
