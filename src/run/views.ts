@@ -1,10 +1,10 @@
-import { dirname, join } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { mkdirSync } from 'node:fs';
 import type { CourseRecord, IterationMetrics, RunState } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
 import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
-import { initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
+import { compareHtml, initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
 import { readLive, writeFileAtomic, type LiveRecord, type SkippedCheckpoint } from '../store/index.js';
 import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
@@ -88,4 +88,21 @@ export async function writeStrobe(run: Run, state: RunState, courseId: number, w
 /** Writes the run's courses as a curriculum export (default <run>/exports/curriculum). */
 export function exportRun(run: Run, state: RunState, out: string | undefined, order: Order, only: Only): ExportResult {
   return writeExport(run.ctx, state, out ?? join(run.dir, 'exports', 'curriculum'), order, only);
+}
+
+/**
+ * Writes one page comparing several runs (each run's newest verified state and metrics) to
+ * `out` (default compare/index.html beside the first run directory). No replays: nothing is simulated.
+ */
+export function writeComparison(runs: readonly Run[], out: string | undefined): string {
+  const file = out ?? join(dirname(runs[0].dir), 'compare', 'index.html');
+  const names = runs.map((r) => basename(r.dir));
+  const rows = runs.map((run, k) => {
+    const { state } = run.latest();
+    const name = names.indexOf(names[k]) === k ? names[k] : `${names[k]} (${k + 1})`;
+    return { name, dir: run.dir, seed: run.inputs.recipe.seed, fingerprint: run.fingerprint(state), recipeHash: run.recipeHash, metrics: run.metricsLog(state.iteration) };
+  });
+  mkdirSync(dirname(file), { recursive: true });
+  writeFileAtomic(file, compareHtml(rows));
+  return file;
 }
