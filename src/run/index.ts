@@ -8,5 +8,5 @@ export { runStatus, writeReport, writeStrobe, exportRun, writeComparison } from 
 export type { RunStatus, PairRow } from './views.js';
 export { openSource, sourceCourse, parseSourceSpec } from './sources.js';
 export type { Source, SourceCourse, SourceWalker } from './sources.js';
-export { misfit, namedCourse, repertoire, lookup, compareRows } from './scene.js';
+export { namedCourse, repertoire, lookup, compareRows } from './scene.js';
 export type { RepertoireWalker, LookupRow, LookupResult } from './scene.js';

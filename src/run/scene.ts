@@ -1,16 +1,8 @@
-import { observationSize, actionSize, type BodyPlan } from '../body/index.js';
+import type { BodyPlan } from '../body/index.js';
 import { emptyBatch, makeEvaluator, type Backend } from '../pool/index.js';
-import type { PolicyShape } from '../policy/index.js';
-import type { RolloutOptions, RolloutResult } from '../sim/index.js';
+import { policyMisfit, type RolloutOptions, type RolloutResult } from '../sim/index.js';
 import { buildCourse, loadTerrainSource, type Course } from '../terrain/index.js';
 import { openSource, parseSourceSpec, sourceCourse, type Source, type SourceWalker } from './sources.js';
-
-/** Why a network cannot drive a body plan, or null when it fits. */
-export function misfit(shape: PolicyShape, plan: BodyPlan): string | null {
-  const [i, o] = [observationSize(plan), actionSize(plan)];
-  if (shape.inputs === i && shape.outputs === o) return null;
-  return `its network takes ${shape.inputs} inputs and gives ${shape.outputs} outputs; body plan "${plan.name}" has ${i} sensors and ${o} motors`;
-}
 
 /** A course named on the command line: `RUN_OR_EXPORT:COURSE_ID`, or a terrain family / genome file. */
 export function namedCourse(spec: string, familyPath?: string): { course: Course; label: string } {
@@ -64,7 +56,7 @@ export function compareRows(a: LookupRow, b: LookupRow): number {
 export async function lookup(src: Source, course: Course, plan: BodyPlan, rollout: RolloutOptions, backend: Backend): Promise<LookupResult> {
   const walkers = repertoire(src);
   // A run's walkers share one network shape, so they all fit the plan or none does.
-  const reason = misfit(src.shape, plan);
+  const reason = policyMisfit(src.shape, plan);
   if (reason) return { ranked: [], skipped: walkers.map((walker) => ({ walker, reason })) };
   const batch = emptyBatch();
   batch.courses.push(course);
