@@ -82,7 +82,7 @@ export function reportHtml(d: ReportData & { initialCourse: number }): string {
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
 <title>cairn report: ${esc(d.run.name)}</title><style>${STYLE}</style></head><body>
 <header><h1>${esc(d.run.name)}</h1>
-<p class="facts"><span>iteration ${d.run.iteration} of ${d.run.target}</span><span>seed ${d.run.seed}</span><span>${plural(d.courses.length - 1, 'course')} admitted</span><span>${solved} solved</span><span>${plural(last ? last.takeovers : 0, 'takeover')}</span></p>
+<p class="facts"><span>iteration ${d.run.iteration} of ${d.run.target}</span><span>seed ${d.run.seed}</span><span>${plural(d.courses.filter((c) => c.parent !== null).length, 'course')} admitted</span><span>${solved} solved</span><span>${plural(last ? last.takeovers : 0, 'takeover')}</span></p>
 <p class="facts fp">fingerprint ${esc(d.run.fingerprint)}</p>
 <p class="key facts">status<span style="background:${C.moss}"></span>active<span style="background:${C.slate}"></span>archived<span style="background:${C.clay}"></span>solved</p></header>
 <section id="curves"><h2>The population over time</h2><div class="charts">${curves(d)}</div></section>

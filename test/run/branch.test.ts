@@ -49,8 +49,9 @@ describe('a branched run', () => {
       expect(bytes(start.pairs[0].es.mean)).toBe(bytes(wantWalker.params));
       expect(start.courses[0].source).toEqual({ fingerprint: src.fingerprint(state), courseId: GAP_COURSE });
       expect(start.pairs.map((p) => p.courseId)).toEqual([0, 1]);
-      // The family's start course is not added: the sources replace it.
+      // The family's start course is not added: the sources replace it, and neither counts as admitted.
       expect(start.courses).toHaveLength(2);
+      expect((JSON.parse(cairn(['status', out, '--json']).stdout) as { admitted: number }).admitted).toBe(0);
     }
   }, SLOW);
 
