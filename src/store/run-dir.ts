@@ -1,7 +1,8 @@
 import { existsSync, mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { loadBodyPlan, type BodyPlan } from '../body/index.js';
-import { readJsonFile, UserError } from '../core/index.js';
+import { z } from 'zod';
+import { parseWith, readJsonFile, UserError } from '../core/index.js';
 import { loadRecipe, parseRecipe, recipeHashOf, type BranchSource, type Recipe } from '../coevo/index.js';
 import { loadFamily, type TerrainFamily } from '../terrain/index.js';
 import { writeFileAtomic } from './atomic.js';
@@ -91,6 +92,19 @@ export function createRunDir(recipePath: string, out: string | undefined, o: Run
   return { dir, recipe: frozen, family, plan, sources, sourcePaths: recipe.from, recipeHash: recipeHashOf(frozen, family, plan, sources) };
 }
 
+const sourcesSchema = z.object({
+  paths: z.array(z.string()),
+  sources: z.array(z.object({
+    fingerprint: z.string().regex(/^[0-9a-f]{64}$/), courseId: z.number().int().min(0), genome: z.object({}).passthrough(),
+    clipped: z.boolean(), walkerId: z.number().int().min(0), params: z.array(z.number()),
+  }).strict()).min(1),
+}).strict();
+
+/** The frozen branch sources; the genomes were checked against the family when the run was created. */
+function parseSources(json: unknown, where: string): { paths: string[]; sources: BranchSource[] } {
+  return parseWith(sourcesSchema, json, where, 'Branch sources') as unknown as { paths: string[]; sources: BranchSource[] };
+}
+
 /** Reads a run directory's frozen inputs. */
 export function openRunDir(dirArg: string): RunInputs {
   const dir = resolve(dirArg);
@@ -98,7 +112,7 @@ export function openRunDir(dirArg: string): RunInputs {
   const recipe = parseRecipe(readJsonFile(join(dir, RECIPE), 'Recipe'), join(dir, RECIPE));
   const family = loadFamily(join(dir, FAMILY));
   const plan = loadBodyPlan(join(dir, BODY));
-  const frozen = existsSync(join(dir, SOURCES)) ? readJsonFile(join(dir, SOURCES), 'Branch sources') as { paths: string[]; sources: BranchSource[] } : { paths: [], sources: [] };
+  const frozen = existsSync(join(dir, SOURCES)) ? parseSources(readJsonFile(join(dir, SOURCES), 'Branch sources'), join(dir, SOURCES)) : { paths: [], sources: [] };
   return { dir, recipe, family, plan, sources: frozen.sources, sourcePaths: frozen.paths, recipeHash: recipeHashOf(recipe, family, plan, frozen.sources) };
 }
 

@@ -4,7 +4,7 @@
  * lineage names the source, and every mismatch or bad source is refused with exit 2 and
  * nothing written.
  */
-import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Run } from '../../src/run/index.js';
@@ -91,6 +91,23 @@ describe('a branched run', () => {
     expect(rep.code, rep.stderr).toBe(0);
     expect(readFileSync(join(tmp, 'rep.html'), 'utf8')).toContain(`branched from course ${GAP_COURSE} of run ${fp.slice(0, 12)}`);
   }, SLOW);
+});
+
+describe('a branched run whose frozen sources were edited', () => {
+  it('is refused by status and resume with exit 2, naming sources.json and the field', () => {
+    const dir = join(tmp, 'edited');
+    cpSync(join(tmp, 'fp-a'), dir, { recursive: true });
+    const file = join(dir, 'sources.json');
+    const json = readJson<{ sources: { params: unknown }[] }>(file);
+    json.sources[0].params = 'none';
+    writeFileSync(file, JSON.stringify(json));
+    for (const args of [['status', dir], ['resume', dir, '--iterations', '4', '--quiet']]) {
+      const r = cairn(args);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toMatch(/sources\.json.*sources\[0\]\.params/);
+      expect(r.stderr).not.toMatch(/^\s+at /m);
+    }
+  });
 });
 
 describe('branching refuses what does not fit, writing nothing', () => {
