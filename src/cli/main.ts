@@ -8,6 +8,7 @@ import { registerStatus } from './commands/status.js';
 import { registerExport } from './commands/export.js';
 import { registerReport } from './commands/report.js';
 import { registerWorker } from './commands/worker.js';
+import { registerLookup } from './commands/lookup.js';
 import { EXIT, reportError } from './fail.js';
 
 const program = new Command();
@@ -23,6 +24,7 @@ registerStatus(program);
 registerExport(program);
 registerReport(program);
 registerEval(program);
+registerLookup(program);
 registerTrain(program);
 registerBench(program);
 registerWorker(program);

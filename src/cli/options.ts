@@ -43,3 +43,17 @@ export function oneOf<T extends string>(words: readonly T[]): (v: string) => T {
     return v as T;
   };
 }
+
+/** Commander parser for a list of seeds: "1-5", "1,4,9" or a mix ("1-3,7"); at most 1000, no repeats. */
+export function seedList(v: string): number[] {
+  const seeds = v.split(',').flatMap((part) => {
+    const m = /^\s*(\d+)\s*-\s*(\d+)\s*$/.exec(part);
+    if (!m) return [intIn(0, 2 ** 31 - 1)(part.trim())];
+    const [a, b] = [intIn(0, 2 ** 31 - 1)(m[1]), intIn(0, 2 ** 31 - 1)(m[2])];
+    if (b < a || b - a >= 1000) throw new InvalidArgumentError(`expected a range low-high with low ≤ high and at most 1000 seeds, found "${part.trim()}"`);
+    return Array.from({ length: b - a + 1 }, (_, i) => a + i);
+  });
+  if (new Set(seeds).size !== seeds.length) throw new InvalidArgumentError(`expected each seed once, found "${v}"`);
+  if (seeds.length > 1000) throw new InvalidArgumentError('expected at most 1000 seeds');
+  return seeds;
+}

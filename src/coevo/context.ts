@@ -3,7 +3,8 @@ import { hashValue, stream } from '../core/index.js';
 import { initEsState, type EsConfig, type EsState } from '../evolve/index.js';
 import { initParams, type PolicyShape } from '../policy/index.js';
 import { defaultRolloutOptions, type RolloutOptions } from '../sim/index.js';
-import { buildCourse, descriptor, type Course, type TerrainFamily } from '../terrain/index.js';
+import { buildCourse, descriptor, type Course, type TerrainFamily, type TerrainGenome } from '../terrain/index.js';
+import type { BranchSource } from './branch.js';
 import type { Recipe } from './recipe.js';
 import type { CourseRecord, RunState } from './state.js';
 
@@ -19,18 +20,24 @@ export interface RunContext {
   readonly strictRollout: RolloutOptions;
   /** Hash of everything that shapes the run's trajectory: recipe (less its budget and file names), family and body plan. */
   readonly recipeHash: string;
+  /** Courses and walkers a branched run starts from (empty for a run from the family's start). */
+  readonly sources: readonly BranchSource[];
   /** Built courses by id (derived from genomes, cached). */
   readonly courseCache: Map<number, Course>;
 }
 
-/** The hash a run's fingerprint and checkpoints are tied to. The budget may change on resume; file names are where copies live. */
-export function recipeHashOf(recipe: Recipe, family: TerrainFamily, plan: BodyPlan): string {
-  const { budget: _budget, terrain: _t, body: _b, ...rest } = recipe;
-  return hashValue({ recipe: rest, family, plan });
+/**
+ * The hash a run's fingerprint and checkpoints are tied to. The budget may change on resume;
+ * file names (terrain, body, the `from` specs) are where copies live. Branch sources count by
+ * content; a run without them hashes as before they existed.
+ */
+export function recipeHashOf(recipe: Recipe, family: TerrainFamily, plan: BodyPlan, sources: readonly BranchSource[] = []): string {
+  const { budget: _budget, terrain: _t, body: _b, from: _f, ...rest } = recipe;
+  return hashValue(sources.length > 0 ? { recipe: rest, family, plan, sources } : { recipe: rest, family, plan });
 }
 
 /** Derives everything fixed for a run from its recipe, family and body plan: the one place this is done. */
-export function makeContext(recipe: Recipe, family: TerrainFamily, plan: BodyPlan): RunContext {
+export function makeContext(recipe: Recipe, family: TerrainFamily, plan: BodyPlan, sources: readonly BranchSource[] = []): RunContext {
   const e = recipe.episode;
   const physics = { gravity: e.gravity, timeStep: e.timeStep, velocityIterations: e.velocityIterations, positionIterations: e.positionIterations };
   const rollout: RolloutOptions = { ...defaultRolloutOptions(), physics, maxSteps: e.maxSteps, stallSeconds: e.stallSeconds, stallDistance: e.stallDistance, fallPenalty: e.fallPenalty };
@@ -41,7 +48,8 @@ export function makeContext(recipe: Recipe, family: TerrainFamily, plan: BodyPla
     es: recipe.es,
     rollout,
     strictRollout: { ...rollout, physics: strict },
-    recipeHash: recipeHashOf(recipe, family, plan),
+    recipeHash: recipeHashOf(recipe, family, plan, sources),
+    sources,
     courseCache: new Map(),
   };
 }
@@ -63,23 +71,34 @@ export function freshEs(ctx: RunContext, params: readonly number[], label: strin
   return initEsState(params, stream(ctx.recipe.seed, label));
 }
 
-/** The state of a new run: the family's start course with one walker initialised from the seed. */
+/** A starting course record held by walker `walkerId` with weights `params`. */
+function startCourse(id: number, genome: TerrainGenome, walkerId: number, params: number[], source?: BranchSource): CourseRecord {
+  return {
+    id, parent: null, admittedAt: 0, genome, descriptor: descriptor(genome),
+    admission: { bestProgress: 0, walkerId: null, novelty: 0 },
+    best: { progress: 0, walkerId, iteration: 0, params },
+    solvedAt: null, solvedBy: null, archivedAt: null,
+    holders: [{ walkerId, since: 0, how: 'seed' }],
+    ...(source ? { source: { fingerprint: source.fingerprint, courseId: source.courseId } } : {}),
+  };
+}
+
+/**
+ * The state of a new run: the family's start course with one walker initialised from the seed;
+ * or, for a branched run, each source's course with its walker's exact weights (course and
+ * walker ids 0, 1, ... in the order given; the family's start course is not added).
+ */
 export function initialState(ctx: RunContext): RunState {
-  const params = Array.from(initParams(ctx.shape, stream(ctx.recipe.seed, 'walker/0/init')));
-  const genome = ctx.family.start;
+  const starts = ctx.sources.length > 0
+    ? ctx.sources.map((s, i) => startCourse(i, s.genome, i, Array.from(s.params), s))
+    : [startCourse(0, ctx.family.start, 0, Array.from(initParams(ctx.shape, stream(ctx.recipe.seed, 'walker/0/init'))))];
   return {
     format: 1,
     iteration: 0,
-    nextCourseId: 1,
-    nextWalkerId: 1,
-    courses: [{
-      id: 0, parent: null, admittedAt: 0, genome, descriptor: descriptor(genome),
-      admission: { bestProgress: 0, walkerId: null, novelty: 0 },
-      best: { progress: 0, walkerId: 0, iteration: 0, params },
-      solvedAt: null, solvedBy: null, archivedAt: null,
-      holders: [{ walkerId: 0, since: 0, how: 'seed' }],
-    }],
-    pairs: [{ courseId: 0, walkerId: 0, es: freshEs(ctx, params, 'course/0/walker/0/es-noise'), progress: 0 }],
+    nextCourseId: starts.length,
+    nextWalkerId: starts.length,
+    courses: starts,
+    pairs: starts.map((c) => ({ courseId: c.id, walkerId: c.id, es: freshEs(ctx, c.best.params, `course/${c.id}/walker/${c.id}/es-noise`), progress: 0 })),
     counters: { candidates: 0, takeovers: 0, rollouts: 0, steps: 0 },
   };
 }

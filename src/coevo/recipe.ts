@@ -20,6 +20,8 @@ export const recipeSchema = z
     terrain: z.string().min(1).default('../envs/terrain/mixed.json'),
     /** Body plan file, relative to the recipe file. */
     body: z.string().min(1).default('../envs/bodies/trestle.json'),
+    /** Branch sources, `RUN_OR_EXPORT:COURSE_ID` (paths relative to the recipe file); empty = the family's start. */
+    from: z.array(z.string().regex(/^.+:\d+$/, 'expected RUN_OR_EXPORT:COURSE_ID')).max(1000).default([]),
     policy: z
       .object({
         hidden: z.array(int(1, 1024)).max(8).default([]),
@@ -135,9 +137,43 @@ export function parseRecipe(json: unknown, where: string): Recipe {
   return recipe;
 }
 
-/** Loads a recipe file; `terrain` and `body` come back as absolute paths. */
-export function loadRecipe(path: string): Recipe {
-  const recipe = parseRecipe(readJsonFile(path, 'Recipe'), path);
+/**
+ * Applies `--set path.to.field=value` overrides to a recipe's raw JSON. The value is read as
+ * JSON when it parses (numbers, booleans, arrays), else as a string; the schema then checks
+ * the result, so an unknown field or a bad value gets the schema's own message.
+ */
+export function applySets(json: unknown, sets: readonly string[], where: string): unknown {
+  if (!isObject(json)) return json;
+  const root: Record<string, unknown> = structuredClone(json);
+  for (const set of sets) {
+    const eq = set.indexOf('=');
+    const path = eq > 0 ? set.slice(0, eq).split('.') : [];
+    if (path.length === 0 || path.some((k) => !/^[A-Za-z][A-Za-z0-9]*$/.test(k))) {
+      throw new UserError(`--set ${set}: expected path.to.field=value (field names of ${where})`);
+    }
+    const raw = set.slice(eq + 1);
+    let value: unknown = raw;
+    try { value = JSON.parse(raw); } catch { /* a plain string */ }
+    let at = root;
+    for (const [i, key] of path.slice(0, -1).entries()) {
+      const next = Object.hasOwn(at, key) ? at[key] : {};
+      if (!isObject(next)) throw new UserError(`--set ${set}: ${path.slice(0, i + 1).join('.')} is not an object in ${where}, so it has no field ${path[i + 1]}`);
+      at[key] = next;
+      at = next;
+    }
+    at[path[path.length - 1]] = value;
+  }
+  return root;
+}
+
+function isObject(v: unknown): v is Record<string, unknown> {
+  return v !== null && typeof v === 'object' && !Array.isArray(v);
+}
+
+/** Loads a recipe file with `--set` overrides; `terrain`, `body` and `from` paths come back absolute. */
+export function loadRecipe(path: string, sets: readonly string[] = []): Recipe {
+  const json = readJsonFile(path, 'Recipe');
+  const recipe = parseRecipe(sets.length > 0 ? applySets(json, sets, path) : json, sets.length > 0 ? `${path} with --set` : path);
   const base = dirname(resolve(path));
-  return { ...recipe, terrain: resolve(base, recipe.terrain), body: resolve(base, recipe.body) };
+  return { ...recipe, terrain: resolve(base, recipe.terrain), body: resolve(base, recipe.body), from: recipe.from.map((f) => resolve(base, f)) };
 }

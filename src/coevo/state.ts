@@ -30,6 +30,8 @@ export interface CourseRecord {
   readonly archivedAt: number | null;
   /** Walkers that held the course, in order, with the iteration each took over. */
   readonly holders: readonly { readonly walkerId: number; readonly since: number; readonly how: 'seed' | 'zero-shot' | 'fine-tuned' }[];
+  /** For a course a branched run started from: the source run's fingerprint and the course's id there (absent otherwise). */
+  readonly source?: { readonly fingerprint: string; readonly courseId: number };
 }
 
 /** An active course with its incumbent walker and that walker's optimiser state. */

@@ -38,7 +38,8 @@ export function metricsOf(state: RunState, ctx: RunContext): IterationMetrics {
   return {
     iteration: state.iteration,
     activePairs: state.pairs.length,
-    admitted: state.courses.length - 1,
+    // Starting courses (the family's start, or a branched run's sources) have no parent.
+    admitted: state.courses.filter((c) => c.parent !== null).length,
     archived: state.courses.filter((c) => c.archivedAt !== null).length,
     solved: solved.length,
     takeovers: state.counters.takeovers,

@@ -84,6 +84,7 @@ export function buildCurriculum(ctx: RunContext, state: RunState, order: Order, 
     solvedAt: c.solvedAt,
     solvedBy: c.solvedBy ? { progress: c.solvedBy.progress, walker: files.add(c.solvedBy) } : null,
     holders: c.holders,
+    ...(c.source ? { source: c.source } : {}),
   }));
   const e = ctx.recipe.episode;
   const curriculum = {

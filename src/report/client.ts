@@ -147,6 +147,7 @@ export const CLIENT_SCRIPT = String.raw`
       'best progress ' + current.best.toFixed(3),
       'replayed walker ' + current.walkerId + ' reaches ' + current.replay.progress.toFixed(3),
     ];
+    if (current.source) facts.push('branched from course ' + current.source.courseId + ' of run ' + current.source.fingerprint.slice(0, 12));
     document.getElementById('course-facts').textContent = facts.join(' · ');
     Array.prototype.forEach.call(document.querySelectorAll('.selected'), function (e) { e.classList.remove('selected'); });
     Array.prototype.forEach.call(document.querySelectorAll('[data-course="' + id + '"]'), function (e) { e.classList.add('selected'); });

@@ -23,6 +23,8 @@ export interface ReportCourse {
   readonly best: number;
   readonly walkerId: number;
   readonly holders: number;
+  /** Where a branched run's starting course came from (source fingerprint and course id), else null. */
+  readonly source: { readonly fingerprint: string; readonly courseId: number } | null;
   readonly ground: readonly number[];
   readonly obstacles: readonly (readonly number[])[];
   readonly startX: number;
@@ -55,7 +57,7 @@ export async function reportData(ctx: RunContext, state: RunState, metrics: read
     courses: state.courses.map((c, i) => ({
       id: c.id, parent: c.parent, admittedAt: c.admittedAt, status: active.has(c.id) ? 'active' : 'archived', solvedAt: c.solvedAt,
       difficulty: round(difficulty(c.genome, ctx.family)), descriptor: c.descriptor.map(round),
-      features: c.genome.features.map((f) => f.kind), best: c.best.progress, walkerId: (c.solvedBy ?? c.best).walkerId, holders: c.holders.length,
+      features: c.genome.features.map((f) => f.kind), best: c.best.progress, walkerId: (c.solvedBy ?? c.best).walkerId, holders: c.holders.length, source: c.source ?? null,
       ground: courses[i].ground.map(round), obstacles: courses[i].obstacles.map((p) => p.map(round)),
       startX: courses[i].startX, finishX: courses[i].finishX,
       replay: { every, progress: results[i].progress, frames: (results[i].trace?.frames ?? []).map((f) => f.map(round)) },

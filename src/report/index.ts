@@ -8,3 +8,5 @@ export { strobeSvg, courseBounds, courseShapes, segmentShape } from './course-sv
 export { reportData } from './data.js';
 export type { ReportData, ReportCourse } from './data.js';
 export { reportHtml, initialCourse } from './page.js';
+export { compareHtml } from './compare.js';
+export type { CompareRun } from './compare.js';

@@ -66,7 +66,8 @@ function lineage(d: ReportData): string {
   const nodes = placed.map((p) => {
     const c = byId.get(p.id)!;
     const cls = c.solvedAt !== null ? 'solved' : c.status;
-    const tip = `course ${c.id}, admitted at ${c.admittedAt}${c.solvedAt !== null ? `, solved at ${c.solvedAt}` : ', not solved'}`;
+    const from = c.source ? `, branched from course ${c.source.courseId} of run ${c.source.fingerprint.slice(0, 12)}` : '';
+    const tip = `course ${c.id}, admitted at ${c.admittedAt}${c.solvedAt !== null ? `, solved at ${c.solvedAt}` : ', not solved'}${from}`;
     return `<g class="node ${cls}" data-course="${c.id}" transform="translate(${n(p.x)} ${n(p.y)})"><title>${esc(tip)}</title><circle r="11"/><text text-anchor="middle" y="3.5">${c.id}</text></g>`;
   });
   return `<svg id="lineage-svg" viewBox="0 0 ${n(w)} ${n(h)}" width="${n(w)}" height="${n(h)}">${edges.join('')}${nodes.join('')}</svg>`;
@@ -81,7 +82,7 @@ export function reportHtml(d: ReportData & { initialCourse: number }): string {
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
 <title>cairn report: ${esc(d.run.name)}</title><style>${STYLE}</style></head><body>
 <header><h1>${esc(d.run.name)}</h1>
-<p class="facts"><span>iteration ${d.run.iteration} of ${d.run.target}</span><span>seed ${d.run.seed}</span><span>${plural(d.courses.length - 1, 'course')} admitted</span><span>${solved} solved</span><span>${plural(last ? last.takeovers : 0, 'takeover')}</span></p>
+<p class="facts"><span>iteration ${d.run.iteration} of ${d.run.target}</span><span>seed ${d.run.seed}</span><span>${plural(d.courses.filter((c) => c.parent !== null).length, 'course')} admitted</span><span>${solved} solved</span><span>${plural(last ? last.takeovers : 0, 'takeover')}</span></p>
 <p class="facts fp">fingerprint ${esc(d.run.fingerprint)}</p>
 <p class="key facts">status<span style="background:${C.moss}"></span>active<span style="background:${C.slate}"></span>archived<span style="background:${C.clay}"></span>solved</p></header>
 <section id="curves"><h2>The population over time</h2><div class="charts">${curves(d)}</div></section>

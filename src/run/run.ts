@@ -5,6 +5,7 @@ import {
   type RunInputs, type RunOverrides, type SkippedCheckpoint,
 } from '../store/index.js';
 import { join } from 'node:path';
+import { resolveSources } from './branch.js';
 
 /** A run's newest verified state, with the newer checkpoints that failed verification. */
 export interface Opened {
@@ -22,7 +23,7 @@ export class Run {
 
   /** Validates a recipe and what it names, then creates the run directory (nothing is written on bad input). */
   static create(recipePath: string, out: string | undefined, overrides: RunOverrides): Run {
-    return Run.of(createRunDir(recipePath, out, overrides));
+    return Run.of(createRunDir(recipePath, out, overrides, resolveSources));
   }
 
   /** An existing run directory (read-only: no lock is taken). */
@@ -31,7 +32,7 @@ export class Run {
   }
 
   static of(inputs: RunInputs): Run {
-    return new Run(inputs, makeContext(inputs.recipe, inputs.family, inputs.plan));
+    return new Run(inputs, makeContext(inputs.recipe, inputs.family, inputs.plan, inputs.sources));
   }
 
   get dir(): string {

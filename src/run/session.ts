@@ -1,7 +1,10 @@
 import type { RunState, StepOutcome } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { loadRecipe } from '../coevo/index.js';
 import { describeBackend, makeEvaluator, type Backend, type BackendStatus, type PoolEvent } from '../pool/index.js';
-import { clearLive, logPoolEvent, openRunDir, removeStaleTemps, takeLock, truncateLogs, writeLive, type RunOverrides } from '../store/index.js';
+import { clearLive, logPoolEvent, openRunDir, removeStaleTemps, takeLock, truncateLogs, writeLive, RECIPE, type RunOverrides } from '../store/index.js';
 import { loop, type StopReason } from './loop.js';
 import { Run } from './run.js';
 
@@ -124,4 +127,26 @@ export async function resumeRun(dir: string, o: ResumeOptions, backend: Backend,
     hooks.note?.(`resuming ${run.dir} at iteration ${state.iteration}`);
     return drive(run, state, backend, hooks);
   });
+}
+
+/** The sibling run directories of a seed sweep: `<out or runs/<name>>-s<seed>`. */
+export function sweepDirs(recipePath: string, out: string | undefined, overrides: RunOverrides, seeds: readonly number[]): string[] {
+  const base = resolve(out ?? join('runs', loadRecipe(recipePath, overrides.sets).name));
+  return seeds.map((seed) => `${base}-s${seed}`);
+}
+
+/**
+ * One member of a seed sweep: a new run of `recipePath` with `seed` in `dir`, or, when `dir`
+ * already holds a run (the sweep was stopped and is given again), that run resumed to the
+ * target. Each member is an ordinary run directory, resumable on its own.
+ */
+export async function sweepMember(recipePath: string, dir: string, seed: number, overrides: RunOverrides, backend: Backend, hooks: SessionHooks): Promise<SessionResult> {
+  if (existsSync(join(dir, RECIPE))) {
+    const frozen = Run.open(dir).inputs.recipe.seed;
+    if (frozen !== seed) throw new UserError(`${dir} holds a run with seed ${frozen}, not ${seed}; choose another --out`);
+    hooks.note?.(`seed ${seed}: ${dir} exists, resuming it`);
+    return resumeRun(dir, { iterations: overrides.iterations, minutes: overrides.minutes }, backend, hooks);
+  }
+  hooks.note?.(`seed ${seed}: starting ${dir}`);
+  return startRun(recipePath, dir, { ...overrides, seed }, backend, hooks);
 }

@@ -1,10 +1,10 @@
-import { dirname, join } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { mkdirSync } from 'node:fs';
 import type { CourseRecord, IterationMetrics, RunState } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
 import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
-import { initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
+import { compareHtml, initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
 import { readLive, writeFileAtomic, type LiveRecord, type SkippedCheckpoint } from '../store/index.js';
 import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
@@ -21,6 +21,8 @@ export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved'> {
   readonly skippedCheckpoints: number;
   /** While a process runs the run: where rollouts run, connected workers, rollouts per second (null otherwise). */
   readonly live: LiveRecord | null;
+  /** For a branched run: where each starting course came from (path as given, source fingerprint, course id there). */
+  readonly sources?: readonly { readonly courseId: number; readonly path: string; readonly fingerprint: string; readonly sourceCourseId: number; readonly clipped: boolean }[];
 }
 
 export interface PairRow {
@@ -34,7 +36,12 @@ export interface PairRow {
 export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCheckpoint[]): { status: RunStatus; pairs: PairRow[] } {
   const metrics = run.metrics(state);
   const beyondStart = state.courses.some((c) => c.solvedAt !== null && c.parent !== null);
-  const status = { ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations, skippedCheckpoints: skipped.length, live: readLive(run.dir) };
+  const { sources, sourcePaths } = run.inputs;
+  const lineage = sources.map((s, i) => ({ courseId: i, path: sourcePaths[i] ?? '?', fingerprint: s.fingerprint, sourceCourseId: s.courseId, clipped: s.clipped }));
+  const status = {
+    ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations,
+    skippedCheckpoints: skipped.length, live: readLive(run.dir), ...(lineage.length > 0 ? { sources: lineage } : {}),
+  };
   const pairs = state.pairs.map((p) => {
     const course = state.courses.find((r) => r.id === p.courseId)!;
     return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: difficulty(course.genome, run.inputs.family) };
@@ -81,4 +88,21 @@ export async function writeStrobe(run: Run, state: RunState, courseId: number, w
 /** Writes the run's courses as a curriculum export (default <run>/exports/curriculum). */
 export function exportRun(run: Run, state: RunState, out: string | undefined, order: Order, only: Only): ExportResult {
   return writeExport(run.ctx, state, out ?? join(run.dir, 'exports', 'curriculum'), order, only);
+}
+
+/**
+ * Writes one page comparing several runs (each run's newest verified state and metrics) to
+ * `out` (default compare/index.html beside the first run directory). No replays: nothing is simulated.
+ */
+export function writeComparison(runs: readonly Run[], out: string | undefined): string {
+  const file = out ?? join(dirname(runs[0].dir), 'compare', 'index.html');
+  const names = runs.map((r) => basename(r.dir));
+  const rows = runs.map((run, k) => {
+    const { state } = run.latest();
+    const name = names.indexOf(names[k]) === k ? names[k] : `${names[k]} (${k + 1})`;
+    return { name, dir: run.dir, seed: run.inputs.recipe.seed, fingerprint: run.fingerprint(state), recipeHash: run.recipeHash, metrics: run.metricsLog(state.iteration) };
+  });
+  mkdirSync(dirname(file), { recursive: true });
+  writeFileAtomic(file, compareHtml(rows));
+  return file;
 }

@@ -2,12 +2,15 @@ import { actionSize, observationSize, type BodyPlan } from '../body/index.js';
 import { UserError } from '../core/index.js';
 import type { PolicyShape } from '../policy/index.js';
 
+/** Why a network cannot drive a body plan (its sizes against the plan's sensors and motors), or null when it fits. */
+export function policyMisfit(shape: PolicyShape, plan: BodyPlan): string | null {
+  const [inputs, outputs] = [observationSize(plan), actionSize(plan)];
+  if (shape.inputs === inputs && shape.outputs === outputs) return null;
+  return `its network takes ${shape.inputs} inputs and gives ${shape.outputs} outputs; body plan "${plan.name}" has ${inputs} sensors and ${outputs} motors`;
+}
+
 /** Refuses a network whose input and output sizes do not match the body plan's sensors and motors. */
 export function assertPolicyFits(shape: PolicyShape, plan: BodyPlan, where: string): void {
-  if (shape.inputs !== observationSize(plan) || shape.outputs !== actionSize(plan)) {
-    throw new UserError(
-      `Walker ${where}: network takes ${shape.inputs} inputs and gives ${shape.outputs} outputs; ` +
-        `body plan "${plan.name}" needs ${observationSize(plan)} and ${actionSize(plan)}`,
-    );
-  }
+  const why = policyMisfit(shape, plan);
+  if (why) throw new UserError(`Walker ${where}: ${why}`);
 }

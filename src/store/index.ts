@@ -7,7 +7,7 @@ export { appendLines, readLines, truncateLogs, logPoolEvent, METRICS, EVENTS, FA
 export { takeLock, processAlive, lockOwner } from './lock.js';
 export { writeLive, readLive, clearLive, LIVE } from './live.js';
 export type { LiveRecord } from './live.js';
-export { createRunDir, openRunDir, updateBudget, RECIPE, FAMILY, BODY } from './run-dir.js';
-export type { RunInputs, RunOverrides } from './run-dir.js';
+export { createRunDir, openRunDir, updateBudget, RECIPE, FAMILY, BODY, SOURCES } from './run-dir.js';
+export type { RunInputs, RunOverrides, SourceResolver } from './run-dir.js';
 export { openRun } from './open.js';
 export type { OpenedRun } from './open.js';

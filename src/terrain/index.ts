@@ -8,3 +8,4 @@ export { mutate } from './mutate.js';
 export { descriptor, descriptorBounds, normalisedDescriptor, difficulty, DESCRIPTOR_NAMES, DESCRIPTOR_LENGTH } from './descriptor.js';
 export { loadTerrainSource } from './source.js';
 export type { TerrainSource } from './source.js';
+export { clipGenome } from './clip.js';

@@ -1,13 +1,18 @@
 import type { Command } from 'commander';
 import { plural } from '../../core/index.js';
-import { Run, writeReport, writeStrobe } from '../../run/index.js';
+import { Run, writeComparison, writeReport, writeStrobe } from '../../run/index.js';
 import { backendOf, workersOption } from '../backend.js';
 import { intIn } from '../options.js';
 
 interface ReportOptions { out?: string; workers: number; quiet?: boolean }
 
-async function reportAction(dir: string, o: ReportOptions): Promise<void> {
-  const run = Run.open(dir);
+async function reportAction(dirs: string[], o: ReportOptions): Promise<void> {
+  if (dirs.length > 1) {
+    const out = writeComparison(dirs.map((d) => Run.open(d)), o.out);
+    process.stdout.write(`comparison of ${dirs.length} runs written to ${out}\n`);
+    return;
+  }
+  const run = Run.open(dirs[0]);
   const { state } = run.latest();
   if (!o.quiet) process.stderr.write(`replaying ${plural(state.courses.length, 'course')}...\n`);
   const out = await writeReport(run, state, o.out, backendOf(o));
@@ -26,9 +31,9 @@ async function renderAction(dir: string, o: RenderOptions): Promise<void> {
 export function registerReport(program: Command): void {
   const report = program
     .command('report')
-    .description('write one self-contained HTML page: curves, lineage tree, course map and replays')
-    .argument('<run-dir>', 'run directory (its newest valid checkpoint; works while the run goes on)')
-    .option('--out <file>', 'HTML file (default <run-dir>/report/index.html)');
+    .description('write one self-contained HTML page: curves, lineage tree, course map and replays; with several runs, a page comparing them')
+    .argument('<run-dir...>', 'run directory (its newest valid checkpoint; works while the run goes on); several: compare them (median and range of their curves, final figures)')
+    .option('--out <file>', 'HTML file (default <run-dir>/report/index.html; for several runs compare/index.html beside the first)');
   workersOption(report, 'worker threads for the replays')
     .option('--quiet', 'no progress on stderr')
     .action(reportAction);

@@ -1,11 +1,11 @@
 import type { Command } from 'commander';
 import type { StepOutcome } from '../../coevo/index.js';
-import { resumeRun, startRun, type Run, type SessionHooks, type SessionResult } from '../../run/index.js';
+import { resumeRun, startRun, sweepDirs, sweepMember, type Run, type SessionHooks, type SessionResult } from '../../run/index.js';
 import type { BackendStatus } from '../../pool/index.js';
 import { backendOf, backendOptions, type BackendFlags } from '../backend.js';
 import { EXIT } from '../fail.js';
-import { intIn, numberIn } from '../options.js';
-import { plural } from '../../core/index.js';
+import { intIn, numberIn, seedList } from '../options.js';
+import { plural, UserError } from '../../core/index.js';
 import { formatDuration, Progress } from '../progress.js';
 import { installStopHandlers } from '../signals.js';
 
@@ -63,11 +63,20 @@ async function session(o: LoopOptions, go: (hooks: SessionHooks) => Promise<Sess
   }
 }
 
-interface RunOptions extends LoopOptions { out?: string; seed?: number; iterations?: number; minutes?: number }
+interface RunOptions extends LoopOptions { out?: string; seed?: number; seeds?: number[]; iterations?: number; minutes?: number; from: string[]; clip?: boolean; set: string[] }
 
 async function runAction(recipePath: string, o: RunOptions): Promise<void> {
-  await session(o, (hooks) => startRun(recipePath, o.out, { seed: o.seed, iterations: o.iterations, minutes: o.minutes }, backendOf(o), hooks));
+  const overrides = { seed: o.seed, iterations: o.iterations, minutes: o.minutes, sets: o.set, from: o.from.length > 0 ? o.from : undefined, clip: o.clip };
+  if (!o.seeds) return session(o, (hooks) => startRun(recipePath, o.out, overrides, backendOf(o), hooks));
+  if (o.seed !== undefined) throw new UserError('--seed and --seeds do not combine: give one of them');
+  const dirs = sweepDirs(recipePath, o.out, overrides, o.seeds);
+  for (const [k, seed] of o.seeds.entries()) {
+    await session(o, (hooks) => sweepMember(recipePath, dirs[k], seed, overrides, backendOf(o), hooks));
+    if (process.exitCode !== EXIT.ok) return;
+  }
 }
+
+const collect = (v: string, prev: string[]): string[] => [...prev, v];
 
 interface ResumeOptions extends LoopOptions { iterations?: number; minutes?: number }
 
@@ -83,8 +92,12 @@ export function registerRun(program: Command): void {
     .option('--out <dir>', 'run directory (default runs/<recipe name>)');
   backendOptions(run)
     .option('--seed <n>', 'override the recipe seed', intIn(0, 2 ** 31 - 1))
+    .option('--seeds <list>', 'seed sweep, e.g. 1-5 or 1,4,9: one run per seed, one after another, into <out>-s<seed> (an existing one is resumed)', seedList)
     .option('--iterations <n>', 'total iterations to reach', intIn(1, 100_000_000))
     .option('--minutes <m>', 'stop cleanly after this many minutes', numberIn(0, 1e7))
+    .option('--set <path=value>', 'override a recipe field, e.g. es.sigma=0.03 (repeatable; checked like the recipe)', collect, [])
+    .option('--from <source:course>', 'branch: start from this course of a run directory or export, with its walker (repeatable)', collect, [])
+    .option('--clip', 'with --from: clamp a genome outside the recipe family\'s bounds instead of refusing it')
     .option('--quiet', 'no progress on stderr')
     .action(runAction);
   const resume = program

@@ -45,6 +45,9 @@ function statusAction(dir: string, o: StatusOptions): void {
         `${c.genome.features.length}: ${highlights(c.descriptor)}`,
     );
   }
+  for (const b of s.sources ?? []) {
+    lines.push(`course ${b.courseId} branched from ${b.path} (run ${b.fingerprint.slice(0, 16)}…, course ${b.sourceCourseId})${b.clipped ? ', clipped into this family' : ''}`);
+  }
   for (const k of skipped) lines.push(`note: skipped checkpoint ${k.file}: ${k.reason}`);
   process.stdout.write(`${lines.join('\n')}\n`);
 }

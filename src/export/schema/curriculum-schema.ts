@@ -174,6 +174,13 @@ export const CURRICULUM_SCHEMA: Readonly<Record<string, unknown>> = {
             }
           ]
         },
+        "source": {
+          "type": "object",
+          "description": "Only for a course a branched run started from: the source run's fingerprint and the course's id there.",
+          "required": ["fingerprint", "courseId"],
+          "additionalProperties": false,
+          "properties": { "fingerprint": { "$ref": "#/$defs/sha256" }, "courseId": { "type": "integer", "minimum": 0 } }
+        },
         "holders": {
           "type": "array",
           "items": {

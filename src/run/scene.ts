@@ -1,0 +1,75 @@
+import type { BodyPlan } from '../body/index.js';
+import { emptyBatch, makeEvaluator, type Backend } from '../pool/index.js';
+import { policyMisfit, type RolloutOptions, type RolloutResult } from '../sim/index.js';
+import { buildCourse, loadTerrainSource, type Course } from '../terrain/index.js';
+import { openSource, parseSourceSpec, sourceCourse, type Source, type SourceWalker } from './sources.js';
+
+/** A course named on the command line: `RUN_OR_EXPORT:COURSE_ID`, or a terrain family / genome file. */
+export function namedCourse(spec: string, familyPath?: string): { course: Course; label: string } {
+  if (/:\d+$/.test(spec)) {
+    const { path, courseId } = parseSourceSpec(spec);
+    return { course: sourceCourse(openSource(path), courseId).course, label: spec };
+  }
+  const src = loadTerrainSource(spec, familyPath);
+  return { course: buildCourse(src.genome, src.family), label: spec };
+}
+
+/** One walker of a repertoire and the courses whose record names it. */
+export interface RepertoireWalker extends SourceWalker {
+  /** Ids of the source courses it holds (solver, else best) or is the best walker of. */
+  readonly courses: readonly number[];
+}
+
+/** Every distinct walker of a source (by exact weights), in course order. */
+export function repertoire(src: Source): RepertoireWalker[] {
+  const byWeights = new Map<string, { w: SourceWalker; courses: number[] }>();
+  for (const c of src.courses) {
+    for (const w of [c.holder, ...c.others]) {
+      const key = Buffer.from(Float64Array.from(w.params).buffer).toString('base64');
+      const at = byWeights.get(key);
+      if (at) { if (!at.courses.includes(c.id)) at.courses.push(c.id); } else byWeights.set(key, { w, courses: [c.id] });
+    }
+  }
+  return [...byWeights.values()].map(({ w, courses }) => ({ ...w, courses }));
+}
+
+export interface LookupRow {
+  readonly walker: RepertoireWalker;
+  readonly result: RolloutResult;
+}
+
+export interface LookupResult {
+  readonly ranked: readonly LookupRow[];
+  readonly skipped: readonly { readonly walker: RepertoireWalker; readonly reason: string }[];
+}
+
+/** Ranking order: progress (highest first), then not fallen before fallen, then fewer steps; ties keep repertoire order. */
+export function compareRows(a: LookupRow, b: LookupRow): number {
+  return b.result.progress - a.result.progress || Number(a.result.fell) - Number(b.result.fell) || a.result.steps - b.result.steps;
+}
+
+/**
+ * Runs every walker of `src` once on `course` with `plan` under `rollout` (one batch on the
+ * backend's evaluator) and ranks them. Walkers whose network does not fit the plan are skipped
+ * with the reason.
+ */
+export async function lookup(src: Source, course: Course, plan: BodyPlan, rollout: RolloutOptions, backend: Backend): Promise<LookupResult> {
+  const walkers = repertoire(src);
+  // A run's walkers share one network shape, so they all fit the plan or none does.
+  const reason = policyMisfit(src.shape, plan);
+  if (reason) return { ranked: [], skipped: walkers.map((walker) => ({ walker, reason })) };
+  const batch = emptyBatch();
+  batch.courses.push(course);
+  batch.plans.push(plan);
+  batch.shapes.push(src.shape);
+  batch.options.push(rollout);
+  for (const w of walkers) batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params: w.params } });
+  const evaluator = makeEvaluator(backend);
+  try {
+    const results = walkers.length > 0 ? await evaluator.evaluate(batch) : [];
+    const rows = walkers.map((walker, i) => ({ walker, result: results[i] }));
+    return { ranked: [...rows].sort(compareRows), skipped: [] };
+  } finally {
+    await evaluator.close();
+  }
+}
