@@ -82,7 +82,7 @@ function queueRows(q: QueueBench): Row[] {
     [`coordinator + Redis, ${q.trivialJobs} one-step jobs`, `${fmt(q.trivialJobsPerSecond)} jobs/s`, 'target ≥ 2,000'],
   ];
   for (const p of q.projection) {
-    rows.push([`projection, ${p.cores} cores`, `needs ${fmt(p.jobsPerSecondNeeded)} jobs/s at ${q.jobSize} rollouts/job of ${fmt(q.rolloutMs, 1)} ms; coordinator keeps ${fmt(100 * p.coordinatorShare)}% busy; speed-up ≈ ${fmt(p.projectedSpeedup)}`, 'projection']);
+    rows.push([`projection, ${p.cores} cores`, `needs ${fmt(p.jobsPerSecondNeeded)} jobs/s at ${q.jobSize} rollouts/job of ${fmt(q.rolloutMs, 1)} ms; the coordinator can feed ${fmt(100 * p.coordinatorShare)}% of them; speed-up ≈ ${fmt(p.projectedSpeedup)}`, 'projection']);
   }
   return rows;
 }
