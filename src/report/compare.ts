@@ -11,6 +11,8 @@ export interface CompareRun {
   readonly fingerprint: string;
   readonly recipeHash: string;
   readonly metrics: readonly IterationMetrics[];
+  /** Wall-clock seconds all invocations spent on the run (sessions.jsonl). */
+  readonly seconds: number;
 }
 
 /** Distinct colours for up to eight runs, then repeating (the median is drawn in ink). */
@@ -57,15 +59,15 @@ const fmt = (v: number, digits: number): string => (digits === 0 && Number.isInt
 
 function table(runs: readonly CompareRun[]): string {
   const finals = runs.map((r) => r.metrics[r.metrics.length - 1]);
-  const head = `<tr><th>run</th><th>seed</th>${COLUMNS.map((c) => `<th>${c.title}</th>`).join('')}<th>fingerprint</th></tr>`;
+  const head = `<tr><th>run</th><th>seed</th>${COLUMNS.map((c) => `<th>${c.title}</th>`).join('')}<th>wall time (min)</th><th>fingerprint</th></tr>`;
   const rows = runs.map((r, k) => {
     const m = finals[k];
     const cells = COLUMNS.map((c) => `<td>${m ? fmt(c.get(m), c.digits) : '—'}</td>`).join('');
-    return `<tr data-run="${esc(r.name)}"><td style="color:${RUN_COLOURS[k % RUN_COLOURS.length]}">${esc(r.name)}</td><td>${r.seed}</td>${cells}<td class="fp">${r.fingerprint.slice(0, 16)}…</td></tr>`;
+    return `<tr data-run="${esc(r.name)}"><td style="color:${RUN_COLOURS[k % RUN_COLOURS.length]}">${esc(r.name)}</td><td>${r.seed}</td>${cells}<td>${(r.seconds / 60).toFixed(1)}</td><td class="fp">${r.fingerprint.slice(0, 16)}…</td></tr>`;
   });
   const have = finals.filter((m): m is IterationMetrics => m !== undefined);
   const medians = COLUMNS.map((c) => `<td>${c.median && have.length > 0 ? fmt(median(have.map(c.get)), c.digits) : ''}</td>`).join('');
-  return `<table id="finals">${head}${rows.join('')}<tr class="median"><td>median</td><td></td>${medians}<td></td></tr></table>`;
+  return `<table id="finals">${head}${rows.join('')}<tr class="median"><td>median</td><td></td>${medians}<td>${(median(runs.map((r) => r.seconds)) / 60).toFixed(1)}</td><td></td></tr></table>`;
 }
 
 /** A page comparing several runs: their curves together (each run, median and range) and a table of final figures. */

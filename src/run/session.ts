@@ -4,7 +4,7 @@ import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { loadRecipe } from '../coevo/index.js';
 import { describeBackend, makeEvaluator, type Backend, type BackendStatus, type PoolEvent } from '../pool/index.js';
-import { clearLive, logPoolEvent, openRunDir, removeStaleTemps, takeLock, truncateLogs, writeLive, RECIPE, type RunOverrides } from '../store/index.js';
+import { appendLines, clearLive, logPoolEvent, SESSIONS, openRunDir, removeStaleTemps, takeLock, truncateLogs, writeLive, RECIPE, type RunOverrides } from '../store/index.js';
 import { loop, type StopReason } from './loop.js';
 import { Run } from './run.js';
 
@@ -64,6 +64,8 @@ async function drive(run: Run, start: RunState, backend: Backend, hooks: Session
       }
     }
   };
+  const started = new Date();
+  let reached = start.iteration;
   tick();
   const ticker = setInterval(tick, 1000);
   ticker.unref();
@@ -71,12 +73,18 @@ async function drive(run: Run, start: RunState, backend: Backend, hooks: Session
     const { budget } = run.inputs.recipe;
     const { state, reason } = await loop(run, start, {
       evaluator, targetIterations: budget.iterations, minutes: budget.minutes, stopRequested: hooks.stopRequested,
-      onIteration: (o) => hooks.onIteration?.(o, run, start.iteration),
+      onIteration: (o) => { reached = o.state.iteration; hooks.onIteration?.(o, run, start.iteration); },
     });
     return { run, state, reason, startIteration: start.iteration };
   } finally {
     clearInterval(ticker);
     clearLive(run.dir);
+    const ended = new Date();
+    try {
+      appendLines(join(run.dir, SESSIONS), [{ started: started.toISOString(), ended: ended.toISOString(), seconds: (ended.getTime() - started.getTime()) / 1000, from: start.iteration, to: reached, backend: where }]);
+    } catch {
+      // Wall-clock bookkeeping only: never worth failing a run over.
+    }
     await evaluator.close();
   }
 }

@@ -5,7 +5,7 @@ import { UserError } from '../core/index.js';
 import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
 import { compareHtml, initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
-import { readLive, writeFileAtomic, type LiveRecord, type SkippedCheckpoint } from '../store/index.js';
+import { readLive, wallSeconds, writeFileAtomic, type LiveRecord, type SkippedCheckpoint } from '../store/index.js';
 import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
 
@@ -100,7 +100,7 @@ export function writeComparison(runs: readonly Run[], out: string | undefined): 
   const rows = runs.map((run, k) => {
     const { state } = run.latest();
     const name = names.indexOf(names[k]) === k ? names[k] : `${names[k]} (${k + 1})`;
-    return { name, dir: run.dir, seed: run.inputs.recipe.seed, fingerprint: run.fingerprint(state), recipeHash: run.recipeHash, metrics: run.metricsLog(state.iteration) };
+    return { name, dir: run.dir, seed: run.inputs.recipe.seed, fingerprint: run.fingerprint(state), recipeHash: run.recipeHash, metrics: run.metricsLog(state.iteration), seconds: wallSeconds(run.dir) };
   });
   mkdirSync(dirname(file), { recursive: true });
   writeFileAtomic(file, compareHtml(rows));

@@ -7,6 +7,14 @@ export const EVENTS = 'events.jsonl';
 /** Wall-clock facts about the machinery (a lost job re-run), kept apart from the deterministic logs. */
 export const FAULTS = 'faults.jsonl';
 
+/** Wall-clock time of each invocation that ran the run (start, end, seconds, iterations from–to), kept apart from the deterministic logs. */
+export const SESSIONS = 'sessions.jsonl';
+
+/** Seconds of wall-clock time all invocations of a run spent, from sessions.jsonl (0 when none is recorded). */
+export function wallSeconds(dir: string): number {
+  return readLines<{ seconds?: number }>(join(dir, SESSIONS)).reduce((s, r) => s + (Number.isFinite(r.seconds) ? r.seconds! : 0), 0);
+}
+
 /** Appends one pool event to faults.jsonl with the time it happened. */
 export function logPoolEvent(dir: string, e: object): void {
   appendLines(join(dir, FAULTS), [{ time: new Date().toISOString(), ...e }]);

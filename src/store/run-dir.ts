@@ -6,7 +6,7 @@ import { parseWith, readJsonFile, UserError } from '../core/index.js';
 import { loadRecipe, parseRecipe, recipeHashOf, type BranchSource, type Recipe } from '../coevo/index.js';
 import { loadFamily, type TerrainFamily } from '../terrain/index.js';
 import { writeFileAtomic } from './atomic.js';
-import { EVENTS, FAULTS, METRICS } from './logs.js';
+import { EVENTS, FAULTS, METRICS, SESSIONS } from './logs.js';
 
 export const RECIPE = 'recipe.json';
 export const FAMILY = 'family.json';
@@ -84,7 +84,7 @@ export function createRunDir(recipePath: string, out: string | undefined, o: Run
     if (sources.length > 0) writeFileAtomic(join(dir, SOURCES), `${JSON.stringify({ paths: recipe.from, sources }, null, 1)}\n`);
     writeFileAtomic(join(dir, RECIPE), `${JSON.stringify(frozen, null, 2)}\n`);
     // The logs exist from the start, empty until something happens, so readers need no special case.
-    for (const log of [METRICS, EVENTS, FAULTS]) writeFileAtomic(join(dir, log), '');
+    for (const log of [METRICS, EVENTS, FAULTS, SESSIONS]) writeFileAtomic(join(dir, log), '');
   } catch (e) {
     rmSync(dir, { recursive: true, force: true });
     throw e;

@@ -45,7 +45,7 @@ describe('cairn run on runs/smoke.json', () => {
   });
 
   it('freezes the recipe with every default filled in, and copies the family and body plan', () => {
-    expect(readdirSync(dir).sort()).toEqual(['body.json', 'checkpoints', 'events.jsonl', 'family.json', 'faults.jsonl', 'metrics.jsonl', 'recipe.json']);
+    expect(readdirSync(dir).sort()).toEqual(['body.json', 'checkpoints', 'events.jsonl', 'family.json', 'faults.jsonl', 'metrics.jsonl', 'recipe.json', 'sessions.jsonl']);
     const frozen = JSON.parse(readFileSync(join(dir, 'recipe.json'), 'utf8')) as Recipe;
     // Written out in full: sections smoke.json leaves out (novelty, episode.timeStep, ...) are there.
     expect(frozen).toEqual({ ...recipe, terrain: 'family.json', body: 'body.json' });

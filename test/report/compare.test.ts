@@ -101,6 +101,11 @@ describe('the comparison page in chromium', () => {
       expect(Number(r[col('admitted')])).toBe(statuses[k].admitted);
       expect(Number(r[col('solved')])).toBe(statuses[k].solved);
       expect(r[col('fingerprint')]).toBe(`${statuses[k].fingerprint.slice(0, 16)}…`);
+      // Wall time: every invocation's seconds from sessions.jsonl (s1 was run twice: the sweep, then to 5).
+      const sessions = readFileSync(join(runs[k], 'sessions.jsonl'), 'utf8').trim().split('\n').map((l) => JSON.parse(l) as { seconds: number; from: number; to: number });
+      expect(sessions.length).toBe(k === 0 ? 2 : 1);
+      expect(sessions[sessions.length - 1].to).toBe(statuses[k].iteration);
+      expect(r[col('wall time (min)')]).toBe((sessions.reduce((a, x) => a + x.seconds, 0) / 60).toFixed(1));
     });
     expect(rows[4][0]).toBe('median');
     expect(Number(rows[4][col('admitted')])).toBe(median(statuses.map((s) => s.admitted)));

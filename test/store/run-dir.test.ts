@@ -13,7 +13,7 @@ afterAll(() => rmSync(root, { recursive: true, force: true }));
 describe('createRunDir', () => {
   it('creates metrics.jsonl, events.jsonl and faults.jsonl empty before the first iteration', () => {
     const inputs = createRunDir(writeTinyRecipe(root), join(root, 'run'), {});
-    expect(readdirSync(inputs.dir).sort()).toEqual(['body.json', 'checkpoints', 'events.jsonl', 'family.json', 'faults.jsonl', 'metrics.jsonl', 'recipe.json']);
-    for (const log of ['metrics.jsonl', 'events.jsonl', 'faults.jsonl']) expect(readFileSync(join(inputs.dir, log), 'utf8')).toBe('');
+    expect(readdirSync(inputs.dir).sort()).toEqual(['body.json', 'checkpoints', 'events.jsonl', 'family.json', 'faults.jsonl', 'metrics.jsonl', 'recipe.json', 'sessions.jsonl']);
+    for (const log of ['metrics.jsonl', 'events.jsonl', 'faults.jsonl', 'sessions.jsonl']) expect(readFileSync(join(inputs.dir, log), 'utf8')).toBe('');
   });
 });
