@@ -4,7 +4,7 @@ import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { loadRecipe } from '../coevo/index.js';
 import { describeBackend, makeEvaluator, type Backend, type BackendStatus, type PoolEvent } from '../pool/index.js';
-import { appendLines, clearLive, logPoolEvent, SESSIONS, openRunDir, removeStaleTemps, takeLock, truncateLogs, writeLive, RECIPE, type RunOverrides } from '../store/index.js';
+import { clearLive, logPoolEvent, logSession, openRunDir, removeStaleTemps, takeLock, truncateLogs, writeLive, RECIPE, type RunOverrides } from '../store/index.js';
 import { loop, type StopReason } from './loop.js';
 import { Run } from './run.js';
 
@@ -58,13 +58,13 @@ async function drive(run: Run, start: RunState, backend: Backend, hooks: Session
     lastWaiting = waiting;
     if (ticks++ % 5 === 0 || changed) {
       try {
-        writeLive(run.dir, { pid: process.pid, updated: new Date().toISOString(), backend: where, ...s });
+        writeLive(run.dir, { backend: where, ...s });
       } catch {
         // A failed write must not stop the run; the next tick tries again.
       }
     }
   };
-  const started = new Date();
+  const t0 = performance.now();
   let reached = start.iteration;
   tick();
   const ticker = setInterval(tick, 1000);
@@ -79,9 +79,8 @@ async function drive(run: Run, start: RunState, backend: Backend, hooks: Session
   } finally {
     clearInterval(ticker);
     clearLive(run.dir);
-    const ended = new Date();
     try {
-      appendLines(join(run.dir, SESSIONS), [{ started: started.toISOString(), ended: ended.toISOString(), seconds: (ended.getTime() - started.getTime()) / 1000, from: start.iteration, to: reached, backend: where }]);
+      logSession(run.dir, (performance.now() - t0) / 1000, { from: start.iteration, to: reached, backend: where });
     } catch {
       // Wall-clock bookkeeping only: never worth failing a run over.
     }

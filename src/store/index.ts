@@ -3,7 +3,7 @@ export { loadWalker, saveWalker, WALKER_FORMAT } from './walker-file.js';
 export type { WalkerFile } from './walker-file.js';
 export { CHECKPOINT_VERSION, writeCheckpoint, listCheckpoints, readCheckpoint, loadNewestCheckpoint, removeStaleTemps, checkpointPath } from './checkpoint.js';
 export type { SkippedCheckpoint } from './checkpoint.js';
-export { appendLines, readLines, truncateLogs, logPoolEvent, wallSeconds, METRICS, EVENTS, FAULTS, SESSIONS } from './logs.js';
+export { appendLines, readLines, truncateLogs, logPoolEvent, logSession, wallSeconds, METRICS, EVENTS, FAULTS, SESSIONS } from './logs.js';
 export { takeLock, processAlive, lockOwner } from './lock.js';
 export { writeLive, readLive, clearLive, LIVE } from './live.js';
 export type { LiveRecord } from './live.js';

@@ -18,8 +18,10 @@ export interface LiveRecord {
   readonly waiting?: string;
 }
 
-export function writeLive(dir: string, r: LiveRecord): void {
-  writeFileAtomic(join(dir, LIVE), `${JSON.stringify(r)}\n`);
+/** Writes the live record, stamped with the time now and this process's pid. */
+export function writeLive(dir: string, r: Omit<LiveRecord, 'pid' | 'updated'>): void {
+  const record: LiveRecord = { pid: process.pid, updated: new Date().toISOString(), ...r };
+  writeFileAtomic(join(dir, LIVE), `${JSON.stringify(record)}\n`);
 }
 
 /** The live record of the process that holds the run's lock now, or null when no process runs it. */

@@ -15,6 +15,12 @@ export function wallSeconds(dir: string): number {
   return readLines<{ seconds?: number }>(join(dir, SESSIONS)).reduce((s, r) => s + (Number.isFinite(r.seconds) ? r.seconds! : 0), 0);
 }
 
+/** Appends one invocation's line to sessions.jsonl, ending now after `seconds`. */
+export function logSession(dir: string, seconds: number, r: { from: number; to: number; backend: string }): void {
+  const ended = Date.now();
+  appendLines(join(dir, SESSIONS), [{ started: new Date(ended - seconds * 1000).toISOString(), ended: new Date(ended).toISOString(), seconds, ...r }]);
+}
+
 /** Appends one pool event to faults.jsonl with the time it happened. */
 export function logPoolEvent(dir: string, e: object): void {
   appendLines(join(dir, FAULTS), [{ time: new Date().toISOString(), ...e }]);
