@@ -73,11 +73,17 @@ export function parseTables(json: unknown, tasks: readonly Task[]): BatchTables 
   if (!r.success) throw new Error(`refused malformed batch tables: ${problems(r.error)}`);
   const t = r.data;
   const plans = t.plans.map((p, i) => parseBodyPlan(p, `batch tables plans[${i}]`));
+  const tables: BatchTables = { courses: t.courses, plans, shapes: t.shapes, options: t.options as BatchTables['options'], bases: t.bases };
+  assertTaskIndices(tables, tasks);
+  return tables;
+}
+
+/** Refuses a job whose tasks point past its batch's tables (checked for every job, tables cached or not). */
+export function assertTaskIndices(t: BatchTables, tasks: readonly Task[]): void {
   for (const [k, x] of tasks.entries()) {
     const p = x.policy;
-    const bad = x.course >= t.courses.length ? 'course' : x.plan >= plans.length ? 'plan' : x.shape >= t.shapes.length ? 'shape'
+    const bad = x.course >= t.courses.length ? 'course' : x.plan >= t.plans.length ? 'plan' : x.shape >= t.shapes.length ? 'shape'
       : x.options >= t.options.length ? 'options' : p.kind === 'perturbed' && p.base >= t.bases.length ? 'policy.base' : null;
     if (bad) throw new Error(`refused a job: task ${k} points past the batch's ${bad} table`);
   }
-  return { courses: t.courses, plans, shapes: t.shapes, options: t.options as BatchTables['options'], bases: t.bases };
 }

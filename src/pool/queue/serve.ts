@@ -6,7 +6,7 @@ import type { BatchTables } from '../task.js';
 import { ThreadEvaluator } from '../threads.js';
 import { settleWithin } from './coordinator.js';
 import { QUEUE_TIMING, QueueKeys } from './names.js';
-import { parseJobData, parseTables, type JobReturn } from './payload.js';
+import { assertTaskIndices, parseJobData, parseTables, type JobReturn } from './payload.js';
 import { redisOptions, type RedisAddress } from './url.js';
 
 export interface ServeOptions {
@@ -73,7 +73,10 @@ export async function serveQueue(o: ServeOptions): Promise<QueueWorker> {
   async function tablesOf(key: string, job: ReturnType<typeof parseJobData>): Promise<BatchTables> {
     const tasks = job.items.map((i) => i.task);
     const cached = tables.get(key);
-    if (cached) return parseTablesCached(cached, tasks);
+    if (cached) {
+      assertTaskIndices(cached, tasks);
+      return cached;
+    }
     const json = await control.get(key);
     if (json === null) throw new Error(`the batch's tables (${key}) are not in Redis: expired, or Redis restarted; the coordinator writes them again`);
     let parsed: unknown;
@@ -85,17 +88,6 @@ export async function serveQueue(o: ServeOptions): Promise<QueueWorker> {
     const t = parseTables(parsed, tasks);
     tables.set(key, t);
     if (tables.size > TABLES_KEPT) tables.delete(tables.keys().next().value!);
-    return t;
-  }
-
-  /** Tables already validated; only this job's indices need checking. */
-  function parseTablesCached(t: BatchTables, tasks: Parameters<typeof parseTables>[1]): BatchTables {
-    for (const [k, x] of tasks.entries()) {
-      const p = x.policy;
-      if (x.course >= t.courses.length || x.plan >= t.plans.length || x.shape >= t.shapes.length || x.options >= t.options.length || (p.kind === 'perturbed' && p.base >= t.bases.length)) {
-        throw new Error(`refused a job: task ${k} points past the batch's tables`);
-      }
-    }
     return t;
   }
 
