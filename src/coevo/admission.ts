@@ -1,9 +1,10 @@
-import { canonicalJson, stream } from '../core/index.js';
+import { canonicalJson, stream, type Stream } from '../core/index.js';
 import type { Evaluator } from '../pool/index.js';
 import { buildCourse, descriptor, mutate, type TerrainGenome } from '../terrain/index.js';
 import { PhaseBatch } from './batch.js';
 import { freshEs, type RunContext } from './context.js';
 import type { Draft } from './draft.js';
+import { childCounts, lineages } from './lineage.js';
 import { knnNovelty, noveltyMeasure } from './novelty.js';
 import type { CandidateOutcome, CourseRecord, PairState } from './state.js';
 
@@ -22,7 +23,34 @@ export interface Candidate {
   courseId: number | null;
 }
 
-/** Mutates eligible parents' genomes into candidates; genomes seen before are marked duplicates. */
+/**
+ * Draws one parent among `eligible` pairs so that lineages grow side by side rather than as
+ * one chain: first a lineage, uniformly among those with an eligible pair; then a pair in it,
+ * with weight 1 / (1 + children its course already has).
+ */
+export function drawParent(draft: Draft, eligible: readonly PairState[], s: Stream): PairState {
+  const of = lineages(draft.courses);
+  const groups = new Map<number, PairState[]>();
+  for (const p of eligible) {
+    const id = of.get(p.courseId)!;
+    groups.set(id, [...(groups.get(id) ?? []), p]);
+  }
+  const ids = [...groups.keys()].sort((a, b) => a - b);
+  const members = groups.get(ids[s.int(ids.length)])!;
+  const children = childCounts(draft.courses);
+  const weights = members.map((p) => 1 / (1 + (children.get(p.courseId) ?? 0)));
+  let r = s.next() * weights.reduce((a, b) => a + b, 0);
+  for (let i = 0; i < members.length; i++) {
+    r -= weights[i];
+    if (r < 0) return members[i];
+  }
+  return members[members.length - 1];
+}
+
+/**
+ * Mutates eligible parents' genomes into candidates, each 1 to `admission.mutations` times
+ * (drawn uniformly), so some candidates take larger steps; genomes seen before are marked duplicates.
+ */
 export function proposeCandidates(ctx: RunContext, draft: Draft): Candidate[] {
   const a = ctx.recipe.admission;
   const parents = draft.pairs.filter((p) => p.progress >= a.reproduceAbove);
@@ -31,8 +59,10 @@ export function proposeCandidates(ctx: RunContext, draft: Draft): Candidate[] {
   const seen = new Set(draft.courses.map((c) => canonicalJson(c.genome)));
   const out: Candidate[] = [];
   for (let i = 0; i < a.candidates; i++) {
-    const parent = parents[s.int(parents.length)];
-    const genome = mutate(draft.course(parent.courseId).genome, ctx.family, s);
+    const parent = drawParent(draft, parents, s);
+    let genome = draft.course(parent.courseId).genome;
+    const times = 1 + s.int(a.mutations);
+    for (let m = 0; m < times; m++) genome = mutate(genome, ctx.family, s);
     const key = canonicalJson(genome);
     const duplicate = seen.has(key);
     seen.add(key);
@@ -70,6 +100,8 @@ export async function admissionPhase(ctx: RunContext, draft: Draft, evaluator: E
   const refs = readRefs(results);
   admitByNovelty(ctx, draft, live.filter((c) => c.outcome === null), refs);
   draft.counters.candidates += cands.length;
+  draft.counters.tooEasy += cands.filter((c) => c.outcome === 'too-easy').length;
+  draft.counters.tooHard += cands.filter((c) => c.outcome === 'too-hard').length;
   for (const c of cands) {
     draft.events.push({
       type: 'candidate', iteration: draft.iteration, parent: c.parent, outcome: c.outcome!, courseId: c.courseId,
@@ -114,7 +146,7 @@ function admit(ctx: RunContext, draft: Draft, c: Candidate): void {
     id, parent: c.parent, admittedAt: draft.iteration, genome: c.genome, descriptor: descriptor(c.genome),
     admission: { bestProgress: c.bestProgress, walkerId: c.walkerId, novelty: c.novelty ?? 0 },
     best: { progress: c.bestProgress, walkerId, iteration: draft.iteration, params },
-    solvedAt: null, solvedBy: null, archivedAt: null,
+    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, archivedAt: null,
     holders: [{ walkerId, since: draft.iteration, how: 'seed' }],
   };
   draft.courses.push(rec);
@@ -122,11 +154,33 @@ function admit(ctx: RunContext, draft: Draft, c: Candidate): void {
   draft.pairs.push(pair);
 }
 
-/** Retires the oldest pairs to the archive while there are more than maxActive. */
+/**
+ * Which pair retires first when there are too many: solved pairs (earliest solved first), then
+ * pairs neither solved nor protected (oldest first), then protected ones (crossed but not yet
+ * confirmed, within `solve.patience` iterations of crossing; earliest crossed first). Protected
+ * pairs keep training toward a confirmed solve instead of retiring unconfirmed.
+ */
+export function retirementOrder(ctx: RunContext, draft: Draft): PairState[] {
+  const patience = ctx.recipe.solve.patience;
+  const rank = (p: PairState, i: number): [number, number, number] => {
+    const c = draft.course(p.courseId);
+    if (c.solvedAt !== null) return [0, c.solvedAt, i];
+    if (c.crossedAt !== null && draft.iteration - c.crossedAt < patience) return [2, c.crossedAt, i];
+    return [1, 0, i];
+  };
+  const ranked = draft.pairs.map((p, i) => ({ p, r: rank(p, i) }));
+  ranked.sort((a, b) => a.r[0] - b.r[0] || a.r[1] - b.r[1] || a.r[2] - b.r[2]);
+  return ranked.map(({ p }) => p);
+}
+
+/** Retires pairs to the archive, in retirement order, while there are more than maxActive. */
 function retireOverCap(ctx: RunContext, draft: Draft): void {
-  while (draft.pairs.length > ctx.recipe.population.maxActive) {
-    const old = draft.pairs.shift()!;
+  const over = draft.pairs.length - ctx.recipe.population.maxActive;
+  if (over <= 0) return;
+  const leaving = new Set(retirementOrder(ctx, draft).slice(0, over));
+  for (const old of draft.pairs.filter((p) => leaving.has(p))) {
     draft.setCourse({ ...draft.course(old.courseId), archivedAt: draft.iteration });
     draft.events.push({ type: 'retired', iteration: draft.iteration, courseId: old.courseId, walkerId: old.walkerId, progress: old.progress });
   }
+  draft.pairs = draft.pairs.filter((p) => !leaving.has(p));
 }

@@ -84,10 +84,17 @@ export class PhaseBatch {
     return { courses: this.courses, plans: [this.ctx.plan], shapes: [this.ctx.shape], options: this.options, bases: this.bases, tasks: this.tasks };
   }
 
-  /** Evaluates every planned rollout and counts them (rollouts, physics steps) in `draft`. */
+  /** Evaluates every planned rollout and counts them (rollouts, physics steps) in `draft`, and each admitted course's rollouts on its record. */
   async run(evaluator: Evaluator, draft: Draft): Promise<PhaseResults> {
     const all = this.tasks.length === 0 ? [] : await evaluator.evaluate(this.batch());
     draft.count(all);
+    const idOf = new Map([...this.courseIndex].map(([id, h]) => [h, id]));
+    const perCourse = new Map<number, number>();
+    for (const t of this.tasks) {
+      const id = idOf.get(t.course as CourseHandle);
+      if (id !== undefined) perCourse.set(id, (perCourse.get(id) ?? 0) + 1);
+    }
+    for (const [id, n] of perCourse) draft.addCourseRollouts(id, n);
     return new PhaseResults(all);
   }
 }

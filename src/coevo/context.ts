@@ -77,7 +77,7 @@ function startCourse(id: number, genome: TerrainGenome, walkerId: number, params
     id, parent: null, admittedAt: 0, genome, descriptor: descriptor(genome),
     admission: { bestProgress: 0, walkerId: null, novelty: 0 },
     best: { progress: 0, walkerId, iteration: 0, params },
-    solvedAt: null, solvedBy: null, archivedAt: null,
+    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, archivedAt: null,
     holders: [{ walkerId, since: 0, how: 'seed' }],
     ...(source ? { source: { fingerprint: source.fingerprint, courseId: source.courseId } } : {}),
   };
@@ -93,12 +93,12 @@ export function initialState(ctx: RunContext): RunState {
     ? ctx.sources.map((s, i) => startCourse(i, s.genome, i, Array.from(s.params), s))
     : [startCourse(0, ctx.family.start, 0, Array.from(initParams(ctx.shape, stream(ctx.recipe.seed, 'walker/0/init'))))];
   return {
-    format: 1,
+    format: 2,
     iteration: 0,
     nextCourseId: starts.length,
     nextWalkerId: starts.length,
     courses: starts,
     pairs: starts.map((c) => ({ courseId: c.id, walkerId: c.id, es: freshEs(ctx, c.best.params, `course/${c.id}/walker/${c.id}/es-noise`), progress: 0 })),
-    counters: { candidates: 0, takeovers: 0, rollouts: 0, steps: 0 },
+    counters: { candidates: 0, tooEasy: 0, tooHard: 0, takeovers: 0, rollouts: 0, steps: 0 },
   };
 }

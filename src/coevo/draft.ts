@@ -7,7 +7,7 @@ export class Draft {
   courses: CourseRecord[];
   nextCourseId: number;
   nextWalkerId: number;
-  counters: { candidates: number; takeovers: number; rollouts: number; steps: number };
+  counters: { candidates: number; tooEasy: number; tooHard: number; takeovers: number; rollouts: number; steps: number };
   readonly events: RunEvent[] = [];
   /** Weights each pair's walker was evaluated with in this iteration's ES phase, by course id. */
   readonly evaluated = new Map<number, readonly number[]>();
@@ -42,13 +42,19 @@ export class Draft {
     for (const r of results) this.counters.steps += r.steps;
   }
 
+  /** Adds `n` rollouts to course `id`'s own count. */
+  addCourseRollouts(id: number, n: number): void {
+    const c = this.course(id);
+    this.setCourse({ ...c, rollouts: c.rollouts + n });
+  }
+
   newWalkerId(): number {
     return this.nextWalkerId++;
   }
 
   finish(): RunState {
     return {
-      format: 1,
+      format: 2,
       iteration: this.iteration,
       nextCourseId: this.nextCourseId,
       nextWalkerId: this.nextWalkerId,

@@ -1,6 +1,7 @@
 import { dirname, resolve } from 'node:path';
 import { z } from 'zod';
 import { parseWith, readJsonFile, UserError } from '../core/index.js';
+import { DESCRIPTOR_NAMES } from '../terrain/index.js';
 
 const int = (min: number, max: number) => z.number().int().min(min).max(max);
 const num = (min: number, max: number) => z.number().min(min).max(max);
@@ -76,6 +77,8 @@ export const recipeSchema = z
         admitPerRound: int(1, 1000).default(2),
         /** Candidates whose novelty is below this are refused as not novel. */
         minNovelty: num(0, 1e6).default(0),
+        /** Each candidate is its parent mutated 1 to this many times (drawn uniformly), so steps vary in size. */
+        mutations: int(1, 100).default(3),
       })
       .strict()
       .prefault({}),
@@ -103,6 +106,25 @@ export const recipeSchema = z
         checks: int(0, 100).default(3),
         /** Horizontal push on the torso at the start of a confirmation rollout, N·s (random sign and size up to this). */
         push: num(0, 100).default(0.3),
+        /** A crossed course whose confirmation failed is tried again after this many iterations, while its pair is still at the threshold. */
+        retryEvery: int(1, 1_000_000).default(5),
+        /** Iterations after crossing during which an unconfirmed pair is retired only when no other pair can be. */
+        patience: int(0, 1_000_000).default(60),
+      })
+      .strict()
+      .prefault({}),
+    measures: z
+      .object({
+        /** New ground: a solved course counts when its normalised descriptor is farther than this (Euclidean) from every course solved before it. */
+        newGroundDistance: num(0, 100).default(0.2),
+        /** Coverage grid: these descriptor components, each normalised to [0, 1] and cut into `bins` equal cells. */
+        grid: z
+          .object({
+            components: z.array(z.string().min(1)).min(2).max(8).default(['gapWidth', 'stepUp', 'blockHeight', 'uphill']),
+            bins: int(2, 20).default(4),
+          })
+          .strict()
+          .prefault({}),
       })
       .strict()
       .prefault({}),
@@ -132,6 +154,13 @@ export function parseRecipe(json: unknown, where: string): Recipe {
   const problems: string[] = [];
   if (recipe.admission.low >= recipe.admission.high) {
     problems.push(`${where}: admission.low: expected below admission.high (${recipe.admission.high}), found ${recipe.admission.low}`);
+  }
+  const names = new Set(DESCRIPTOR_NAMES);
+  recipe.measures.grid.components.forEach((c, i) => {
+    if (!names.has(c)) problems.push(`${where}: measures.grid.components.${i}: expected one of ${[...names].join(', ')}, found "${c}"`);
+  });
+  if (new Set(recipe.measures.grid.components).size !== recipe.measures.grid.components.length) {
+    problems.push(`${where}: measures.grid.components: each component may appear once`);
   }
   if (problems.length > 0) throw new UserError(`Recipe ${where} is not valid:`, problems);
   return recipe;

@@ -3,16 +3,26 @@ import type { Evaluator } from '../pool/index.js';
 import { PhaseBatch } from './batch.js';
 import type { RunContext } from './context.js';
 import type { Draft } from './draft.js';
+import type { PairState } from './state.js';
+
+/** Whether pair `p` is due a confirmation this iteration: at the threshold, not solved, and its last try (if any) `retryEvery` or more iterations ago. */
+export function confirmationDue(ctx: RunContext, draft: Draft, p: PairState): boolean {
+  const { threshold, retryEvery } = ctx.recipe.solve;
+  const c = draft.course(p.courseId);
+  return p.progress >= threshold && c.solvedAt === null && (c.lastConfirmAt === null || draft.iteration - c.lastConfirmAt >= retryEvery);
+}
 
 /**
- * Marks courses solved. A pair whose walker reached the solve threshold this iteration is
+ * Marks courses solved. A pair whose walker is at the solve threshold this iteration is
  * confirmed with `checks` more rollouts under a stricter solver (twice the iterations), the
  * first unpushed and the rest with a random horizontal push on the torso; every one must reach
- * the threshold. Walkers that only pass under the run's own solver are exploiting it.
+ * the threshold. Walkers that only pass under the run's own solver are exploiting it. A failed
+ * confirmation is tried again every `retryEvery` iterations while the pair stays at the
+ * threshold; meanwhile the pair keeps training (walkers grow robust after first success).
  */
 export async function solvePhase(ctx: RunContext, draft: Draft, evaluator: Evaluator): Promise<void> {
   const { threshold, checks, push } = ctx.recipe.solve;
-  const due = draft.pairs.filter((p) => p.progress >= threshold && draft.course(p.courseId).solvedAt === null);
+  const due = draft.pairs.filter((p) => confirmationDue(ctx, draft, p));
   if (due.length === 0) return;
   const b = new PhaseBatch(ctx, draft);
   const plans = due.map((p) => {
@@ -28,6 +38,20 @@ export async function solvePhase(ctx: RunContext, draft: Draft, evaluator: Evalu
     const ok = progress.every((x) => x >= threshold);
     const base = { iteration: draft.iteration, courseId: pair.courseId, walkerId: best.walkerId, progress: best.progress, checks: progress };
     draft.events.push({ type: ok ? 'solved' : 'unconfirmed', ...base });
-    if (ok) draft.setCourse({ ...draft.course(pair.courseId), solvedAt: draft.iteration, solvedBy: best });
+    const c = draft.course(pair.courseId);
+    draft.setCourse({ ...c, confirmTries: c.confirmTries + 1, lastConfirmAt: draft.iteration, ...(ok ? { solvedAt: draft.iteration, solvedBy: best } : {}) });
+  }
+}
+
+/**
+ * Records first crossings: a course whose best progress under the run's own solver (from any
+ * phase) reached the solve threshold gets `crossedAt` and a 'crossed' event.
+ */
+export function markCrossings(ctx: RunContext, draft: Draft): void {
+  const { threshold } = ctx.recipe.solve;
+  for (const c of [...draft.courses]) {
+    if (c.crossedAt !== null || c.best.progress < threshold) continue;
+    draft.setCourse({ ...c, crossedAt: draft.iteration });
+    draft.events.push({ type: 'crossed', iteration: draft.iteration, courseId: c.id, walkerId: c.best.walkerId, progress: c.best.progress });
   }
 }

@@ -23,8 +23,15 @@ export interface CourseRecord {
   /** Minimal-criterion figures at admission: best current walker's progress and who did it. */
   readonly admission: { readonly bestProgress: number; readonly walkerId: number | null; readonly novelty: number };
   readonly best: BestOnCourse;
-  /** First iteration whose walker solved it (confirmed), or null. */
+  /** First iteration at which some walker reached the solve threshold on it under the run's own solver (crossed), or null. */
+  readonly crossedAt: number | null;
+  /** First iteration whose walker solved it (crossing confirmed under the stricter solver and pushes), or null. */
   readonly solvedAt: number | null;
+  /** Confirmation attempts made so far, and the iteration of the last one (null before the first). */
+  readonly confirmTries: number;
+  readonly lastConfirmAt: number | null;
+  /** Rollouts run on this course (its pair's ES steps, confirmations, transfers onto it). */
+  readonly rollouts: number;
   /** The walker whose confirmation made the course solved, with its weights. */
   readonly solvedBy: BestOnCourse | null;
   readonly archivedAt: number | null;
@@ -45,7 +52,7 @@ export interface PairState {
 
 /** The whole state of a run: plain data, replaced not mutated; its hash is the fingerprint. */
 export interface RunState {
-  readonly format: 1;
+  readonly format: 2;
   /** Iterations completed. */
   readonly iteration: number;
   readonly nextCourseId: number;
@@ -56,6 +63,9 @@ export interface RunState {
   readonly pairs: readonly PairState[];
   readonly counters: {
     readonly candidates: number;
+    /** Candidates refused because the best walker's progress was above / below the admission band. */
+    readonly tooEasy: number;
+    readonly tooHard: number;
     readonly takeovers: number;
     readonly rollouts: number;
     readonly steps: number;
@@ -67,6 +77,7 @@ export type RunEvent =
   | { readonly type: 'candidate'; readonly iteration: number; readonly parent: number; readonly outcome: CandidateOutcome; readonly courseId: number | null; readonly bestProgress: number; readonly walkerId: number | null; readonly novelty: number | null; readonly descriptor: readonly number[] }
   | { readonly type: 'retired'; readonly iteration: number; readonly courseId: number; readonly walkerId: number; readonly progress: number }
   | { readonly type: 'takeover'; readonly iteration: number; readonly courseId: number; readonly fromCourse: number; readonly walkerId: number; readonly newWalkerId: number; readonly how: 'zero-shot' | 'fine-tuned'; readonly progress: number; readonly incumbentProgress: number }
+  | { readonly type: 'crossed'; readonly iteration: number; readonly courseId: number; readonly walkerId: number; readonly progress: number }
   | { readonly type: 'solved'; readonly iteration: number; readonly courseId: number; readonly walkerId: number; readonly progress: number; readonly checks: readonly number[] }
   | { readonly type: 'unconfirmed'; readonly iteration: number; readonly courseId: number; readonly walkerId: number; readonly progress: number; readonly checks: readonly number[] };
 
@@ -76,12 +87,23 @@ export interface IterationMetrics {
   readonly activePairs: number;
   readonly admitted: number;
   readonly archived: number;
+  /** Courses crossed / solved so far (a solved course was crossed first). */
+  readonly crossed: number;
   readonly solved: number;
+  /** New ground: solved courses each farther than the recipe's distance from every course solved before it. */
+  readonly newGround: number;
+  /** Cells of the coverage grid holding a solved course. */
+  readonly coverage: number;
+  /** Lineages (subtrees under a starting course) with an active pair. */
+  readonly lineages: number;
+  readonly candidates: number;
+  readonly tooEasy: number;
   readonly takeovers: number;
   readonly bestProgress: number;
   readonly medianProgress: number;
-  /** Hardest solved course by the difficulty measure (0 when none). */
+  /** Hardest solved / crossed course by the difficulty measure (0 when none). */
   readonly hardestSolved: number;
+  readonly hardestCrossed: number;
   readonly rollouts: number;
   readonly steps: number;
 }

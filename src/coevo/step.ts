@@ -5,7 +5,9 @@ import { admissionPhase } from './admission.js';
 import type { RunContext } from './context.js';
 import { Draft } from './draft.js';
 import { esPhase } from './es-phase.js';
-import { solvePhase } from './solve.js';
+import { liveLineages } from './lineage.js';
+import { coverage, gridSpec, newGround } from './measures.js';
+import { markCrossings, solvePhase } from './solve.js';
 import type { IterationMetrics, RunEvent, RunState } from './state.js';
 import { transferPhase } from './transfer.js';
 
@@ -17,16 +19,18 @@ export interface StepOutcome {
 }
 
 /**
- * One iteration of the co-evolution loop: ES step for every pair; solve confirmations; every
+ * One iteration of the co-evolution loop: ES step for every pair; first crossings and solve confirmations; every
  * admission interval, new courses by mutation and the minimal criterion; every transfer
  * interval, walkers tried on each other's courses. Everything it decides is in the new state.
  */
 export async function step(state: RunState, ctx: RunContext, evaluator: Evaluator): Promise<StepOutcome> {
   const draft = new Draft(state, state.iteration + 1);
   await esPhase(ctx, draft, evaluator);
+  markCrossings(ctx, draft);
   await solvePhase(ctx, draft, evaluator);
   if (draft.iteration % ctx.recipe.admission.interval === 0) await admissionPhase(ctx, draft, evaluator);
   if (draft.iteration % ctx.recipe.transfer.interval === 0) await transferPhase(ctx, draft, evaluator);
+  markCrossings(ctx, draft);
   const next = draft.finish();
   return { state: next, events: draft.events, metrics: metricsOf(next, ctx) };
 }
@@ -35,17 +39,26 @@ export async function step(state: RunState, ctx: RunContext, evaluator: Evaluato
 export function metricsOf(state: RunState, ctx: RunContext): IterationMetrics {
   const progress = state.pairs.map((p) => p.progress);
   const solved = state.courses.filter((c) => c.solvedAt !== null);
+  const crossed = state.courses.filter((c) => c.crossedAt !== null);
+  const diff = (c: { genome: Parameters<typeof difficulty>[0] }): number => difficulty(c.genome, ctx.family);
   return {
     iteration: state.iteration,
     activePairs: state.pairs.length,
     // Starting courses (the family's start, or a branched run's sources) have no parent.
     admitted: state.courses.filter((c) => c.parent !== null).length,
     archived: state.courses.filter((c) => c.archivedAt !== null).length,
+    crossed: crossed.length,
     solved: solved.length,
+    newGround: newGround(state.courses, ctx.family, ctx.recipe.measures.newGroundDistance),
+    coverage: coverage(state.courses, ctx.family, gridSpec(ctx.recipe)),
+    lineages: liveLineages(state, (g) => difficulty(g, ctx.family)).length,
+    candidates: state.counters.candidates,
+    tooEasy: state.counters.tooEasy,
     takeovers: state.counters.takeovers,
     bestProgress: Math.max(0, ...progress),
     medianProgress: progress.length > 0 ? median(progress) : 0,
-    hardestSolved: Math.max(0, ...solved.map((c) => difficulty(c.genome, ctx.family))),
+    hardestSolved: Math.max(0, ...solved.map(diff)),
+    hardestCrossed: Math.max(0, ...crossed.map(diff)),
     rollouts: state.counters.rollouts,
     steps: state.counters.steps,
   };

@@ -5,7 +5,7 @@ import type { RunState } from '../coevo/index.js';
 import { TEMP_PREFIX, writeFileAtomic } from './atomic.js';
 
 /** Checkpoint format version; a run written with another version is refused. */
-export const CHECKPOINT_VERSION = 1;
+export const CHECKPOINT_VERSION = 2;
 const NAME = /^ckpt-(\d{9})\.json$/;
 
 interface CheckpointFile {

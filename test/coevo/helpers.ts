@@ -87,7 +87,7 @@ export function courseRecord(id: number, genome: TerrainGenome, walkerId: number
     id, parent: id === 0 ? null : 0, admittedAt: at, genome, descriptor: descriptor(genome),
     admission: { bestProgress: 0, walkerId: null, novelty: 0 },
     best: { progress: 0, walkerId, iteration: at, params: [...params] },
-    solvedAt: null, solvedBy: null, archivedAt: null,
+    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, archivedAt: null,
     holders: [{ walkerId, since: at, how: 'seed' }],
   };
 }
@@ -104,8 +104,8 @@ export function stateWith(ctx: RunContext, specs: readonly PairSpec[], iteration
     es: initEsState(tagged(ctx, s.tag), stream(ctx.recipe.seed, `test/pair/${i}`)),
   }));
   return {
-    format: 1, iteration, nextCourseId: specs.length, nextWalkerId: specs.length, courses, pairs,
-    counters: { candidates: 0, takeovers: 0, rollouts: 0, steps: 0 },
+    format: 2, iteration, nextCourseId: specs.length, nextWalkerId: specs.length, courses, pairs,
+    counters: { candidates: 0, tooEasy: 0, tooHard: 0, takeovers: 0, rollouts: 0, steps: 0 },
   };
 }
 
