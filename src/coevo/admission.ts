@@ -48,8 +48,8 @@ export function drawParent(draft: Draft, eligible: readonly PairState[], s: Stre
 }
 
 /**
- * Mutates eligible parents' genomes into candidates, each 1 to `admission.mutations` times
- * (drawn uniformly), so some candidates take larger steps; genomes seen before are marked duplicates.
+ * Mutates eligible parents' genomes into candidates; a parent with mutation strength m mutates
+ * each child 1 to 2m − 1 times (uniform, mean m). Genomes seen before are marked duplicates.
  */
 export function proposeCandidates(ctx: RunContext, draft: Draft): Candidate[] {
   const a = ctx.recipe.admission;
@@ -60,8 +60,9 @@ export function proposeCandidates(ctx: RunContext, draft: Draft): Candidate[] {
   const out: Candidate[] = [];
   for (let i = 0; i < a.candidates; i++) {
     const parent = drawParent(draft, parents, s);
-    let genome = draft.course(parent.courseId).genome;
-    const times = 1 + s.int(a.mutations);
+    const from = draft.course(parent.courseId);
+    let genome = from.genome;
+    const times = 1 + s.int(2 * from.mutationSteps - 1);
     for (let m = 0; m < times; m++) genome = mutate(genome, ctx.family, s);
     const key = canonicalJson(genome);
     const duplicate = seen.has(key);
@@ -98,6 +99,8 @@ export async function admissionPhase(ctx: RunContext, draft: Draft, evaluator: E
     else if (c.bestProgress > high) c.outcome = 'too-easy';
   });
   const refs = readRefs(results);
+  // Before admission, so admitted children inherit their parent's adapted strength.
+  adaptMutationSteps(ctx, draft, live);
   admitByNovelty(ctx, draft, live.filter((c) => c.outcome === null), refs);
   draft.counters.candidates += cands.length;
   draft.counters.tooEasy += cands.filter((c) => c.outcome === 'too-easy').length;
@@ -109,6 +112,30 @@ export async function admissionPhase(ctx: RunContext, draft: Draft, evaluator: E
     });
   }
   retireOverCap(ctx, draft);
+}
+
+/**
+ * Adapts each parent's mutation strength to where its children fell this round: when more
+ * than half of its evaluated children were too easy, one step more (up to
+ * `admission.mutations`); when more than half were too hard, one step fewer (down to 1).
+ * In the spirit of step-size control by success rate in evolution strategies.
+ */
+export function adaptMutationSteps(ctx: RunContext, draft: Draft, evaluated: readonly Candidate[]): void {
+  const byParent = new Map<number, { easy: number; hard: number; n: number }>();
+  for (const c of evaluated) {
+    const t = byParent.get(c.parent) ?? { easy: 0, hard: 0, n: 0 };
+    t.n++;
+    if (c.outcome === 'too-easy') t.easy++;
+    if (c.outcome === 'too-hard') t.hard++;
+    byParent.set(c.parent, t);
+  }
+  for (const [id, t] of [...byParent].sort(([a], [b]) => a - b)) {
+    const c = draft.course(id);
+    let steps = c.mutationSteps;
+    if (2 * t.easy > t.n) steps = Math.min(ctx.recipe.admission.mutations, steps + 1);
+    else if (2 * t.hard > t.n) steps = Math.max(1, steps - 1);
+    if (steps !== c.mutationSteps) draft.setCourse({ ...c, mutationSteps: steps });
+  }
 }
 
 /**
@@ -146,7 +173,7 @@ function admit(ctx: RunContext, draft: Draft, c: Candidate): void {
     id, parent: c.parent, admittedAt: draft.iteration, genome: c.genome, descriptor: descriptor(c.genome),
     admission: { bestProgress: c.bestProgress, walkerId: c.walkerId, novelty: c.novelty ?? 0 },
     best: { progress: c.bestProgress, walkerId, iteration: draft.iteration, params },
-    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, archivedAt: null,
+    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, mutationSteps: draft.course(c.parent).mutationSteps, archivedAt: null,
     holders: [{ walkerId, since: draft.iteration, how: 'seed' }],
   };
   draft.courses.push(rec);

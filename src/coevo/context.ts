@@ -77,7 +77,7 @@ function startCourse(id: number, genome: TerrainGenome, walkerId: number, params
     id, parent: null, admittedAt: 0, genome, descriptor: descriptor(genome),
     admission: { bestProgress: 0, walkerId: null, novelty: 0 },
     best: { progress: 0, walkerId, iteration: 0, params },
-    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, archivedAt: null,
+    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, mutationSteps: 1, archivedAt: null,
     holders: [{ walkerId, since: 0, how: 'seed' }],
     ...(source ? { source: { fingerprint: source.fingerprint, courseId: source.courseId } } : {}),
   };

@@ -77,8 +77,8 @@ export const recipeSchema = z
         admitPerRound: int(1, 1000).default(2),
         /** Candidates whose novelty is below this are refused as not novel. */
         minNovelty: num(0, 1e6).default(0),
-        /** Each candidate is its parent mutated 1 to this many times (drawn uniformly), so steps vary in size. */
-        mutations: int(1, 100).default(3),
+        /** Largest mutation strength a course may reach (see adaptMutationSteps): its children are mutated about this many times. */
+        mutations: int(1, 100).default(6),
       })
       .strict()
       .prefault({}),

@@ -32,6 +32,8 @@ export interface CourseRecord {
   readonly lastConfirmAt: number | null;
   /** Rollouts run on this course (its pair's ES steps, confirmations, transfers onto it). */
   readonly rollouts: number;
+  /** Mutation strength for this course's children: each child is the genome mutated about this many times (adapted after each admission round). */
+  readonly mutationSteps: number;
   /** The walker whose confirmation made the course solved, with its weights. */
   readonly solvedBy: BestOnCourse | null;
   readonly archivedAt: number | null;

@@ -87,7 +87,7 @@ export function courseRecord(id: number, genome: TerrainGenome, walkerId: number
     id, parent: id === 0 ? null : 0, admittedAt: at, genome, descriptor: descriptor(genome),
     admission: { bestProgress: 0, walkerId: null, novelty: 0 },
     best: { progress: 0, walkerId, iteration: at, params: [...params] },
-    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, archivedAt: null,
+    crossedAt: null, solvedAt: null, solvedBy: null, confirmTries: 0, lastConfirmAt: null, rollouts: 0, mutationSteps: 1, archivedAt: null,
     holders: [{ walkerId, since: at, how: 'seed' }],
   };
 }

@@ -191,15 +191,35 @@ describe('lineages and parent choice', () => {
     expect(lone / n).toBeLessThan(0.54);
   });
 
-  it('mutates candidates up to admission.mutations times: larger settings move children farther on average', () => {
-    const meanStep = (mutations: number): number => {
-      const c = contextFor(tinyRecipe({ terrain: MIXED, admission: { interval: 1, candidates: 200, reproduceAbove: 0, mutations } }));
-      const st = stateWith(c, [{ tag: 1, progress: 0.5 }]);
+  it('mutates children of a stronger course farther on average', () => {
+    const meanStep = (steps: number): number => {
+      const c = contextFor(tinyRecipe({ terrain: MIXED, admission: { interval: 1, candidates: 200, reproduceAbove: 0, mutations: 8 } }));
+      const base = stateWith(c, [{ tag: 1, progress: 0.5 }]);
+      const st: RunState = { ...base, courses: base.courses.map((k) => ({ ...k, mutationSteps: steps })) };
       const parent = normalisedDescriptor(st.courses[0].genome, c.family);
       const cands = proposeCandidates(c, new Draft(st, 1));
       const d = cands.map((k) => Math.hypot(...normalisedDescriptor(k.genome, c.family).map((v, i) => v - parent[i])));
       return d.reduce((a, b) => a + b, 0) / d.length;
     };
     expect(meanStep(4)).toBeGreaterThan(1.3 * meanStep(1));
+  });
+
+  it('raises a parent\'s mutation strength when most of its children were too easy, lowers it when most were too hard', async () => {
+    const c = contextFor(tinyRecipe({ terrain: MIXED, admission: { interval: 1, candidates: 6, reproduceAbove: 0.3, low: 0.2, high: 0.8, mutations: 2 } }));
+    let state = stateWith(c, [{ tag: 1, progress: 0.5 }]);
+    const steps = async (candidateProgress: number): Promise<number> => {
+      state = (await step(state, c, new FakeEvaluator(c, (r) => (r.courseId !== null ? 0.5 : candidateProgress)))).state;
+      return state.courses[0].mutationSteps;
+    };
+    expect(await steps(0.95)).toBe(2);
+    expect(await steps(0.95)).toBe(2); // capped at admission.mutations
+    expect(await steps(0.05)).toBe(1);
+    expect(await steps(0.05)).toBe(1); // never below 1
+    // In band: admitted children inherit the parent's strength at the time.
+    state = { ...state, courses: state.courses.map((k) => (k.id === 0 ? { ...k, mutationSteps: 2 } : k)) };
+    await steps(0.5);
+    const children = state.courses.filter((k) => k.parent === 0);
+    expect(children.length).toBeGreaterThan(0);
+    for (const k of children) expect(k.mutationSteps).toBe(2);
   });
 });

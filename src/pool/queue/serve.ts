@@ -29,6 +29,9 @@ const CLOSE_JOBS_MS = 30_000;
 
 /** Most batches' tables kept parsed at once (several coordinators may share a queue). */
 const TABLES_KEPT = 4;
+/** How long a live session is taken as live before its key is looked up again, ms (its key lapses 12 s after its coordinator dies). */
+const SESSION_RECHECK_MS = 1000;
+const SESSIONS_KEPT = 64;
 
 /**
  * `cairn worker`: takes rollout jobs from the queue and runs them on this process's own threads
@@ -91,9 +94,22 @@ export async function serveQueue(o: ServeOptions): Promise<QueueWorker> {
     return t;
   }
 
+  // Whether a session's key was in Redis, and when that was looked up: one round trip per
+  // session and second rather than per job. A dead session never comes back, so its answer is
+  // kept; a live one is looked up again after SESSION_RECHECK_MS.
+  const sessions = new Map<string, { alive: boolean; at: number }>();
+  async function sessionAlive(session: string): Promise<boolean> {
+    const known = sessions.get(session);
+    if (known && (!known.alive || performance.now() - known.at < SESSION_RECHECK_MS)) return known.alive;
+    const alive = (await control.exists(keys.session(session))) === 1;
+    sessions.set(session, { alive, at: performance.now() });
+    if (sessions.size > SESSIONS_KEPT) sessions.delete(sessions.keys().next().value!);
+    return alive;
+  }
+
   async function runJob(job: Job): Promise<JobReturn> {
     const data = parseJobData(job.data);
-    if ((await control.exists(keys.session(data.session))) === 0) {
+    if (!(await sessionAlive(data.session))) {
       counts.stale++;
       return { stale: true };
     }
