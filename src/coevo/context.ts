@@ -18,7 +18,7 @@ export interface RunContext {
   readonly rollout: RolloutOptions;
   /** Stricter solver for solve confirmations: twice the velocity and position iterations. */
   readonly strictRollout: RolloutOptions;
-  /** Hash of everything that shapes the run's trajectory: recipe (less its budget and file names), family and body plan. */
+  /** Hash of everything that shapes the run's trajectory: recipe (less its name, budget and file names), family and body plan. */
   readonly recipeHash: string;
   /** Courses and walkers a branched run starts from (empty for a run from the family's start). */
   readonly sources: readonly BranchSource[];
@@ -28,11 +28,12 @@ export interface RunContext {
 
 /**
  * The hash a run's fingerprint and checkpoints are tied to. The budget may change on resume;
- * file names (terrain, body, the `from` specs) are where copies live. Branch sources count by
+ * the run's name and file names (terrain, body, the `from` specs) say where things live, not
+ * what happens, so two recipes that differ only there give the same run. Branch sources count by
  * content; a run without them hashes as before they existed.
  */
 export function recipeHashOf(recipe: Recipe, family: TerrainFamily, plan: BodyPlan, sources: readonly BranchSource[] = []): string {
-  const { budget: _budget, terrain: _t, body: _b, from: _f, ...rest } = recipe;
+  const { name: _name, budget: _budget, terrain: _t, body: _b, from: _f, ...rest } = recipe;
   return hashValue(sources.length > 0 ? { recipe: rest, family, plan, sources } : { recipe: rest, family, plan });
 }
 
