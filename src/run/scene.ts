@@ -1,5 +1,6 @@
-import type { BodyPlan } from '../body/index.js';
-import { emptyBatch, makeEvaluator, type Backend } from '../pool/index.js';
+import { actionSize, observationSize, type BodyPlan } from '../body/index.js';
+import { emptyBatch, makeEvaluator, type Backend, type Evaluator } from '../pool/index.js';
+import type { Activation, PolicyShape } from '../policy/index.js';
 import { policyMisfit, type RolloutOptions, type RolloutResult } from '../sim/index.js';
 import { buildCourse, loadTerrainSource, type Course } from '../terrain/index.js';
 import { openSource, parseSourceSpec, sourceCourse, type Source, type SourceWalker } from './sources.js';
@@ -12,6 +13,21 @@ export function namedCourse(spec: string, familyPath?: string): { course: Course
   }
   const src = loadTerrainSource(spec, familyPath);
   return { course: buildCourse(src.genome, src.family), label: spec };
+}
+
+/** The network of a fresh walker for `plan`: its sensors in, its motors out, the given hidden layers between. */
+export function freshShape(plan: BodyPlan, hidden: readonly number[], activation: Activation): PolicyShape {
+  return { inputs: observationSize(plan), hidden, outputs: actionSize(plan), activation };
+}
+
+/** Runs `body` on the backend's evaluator, then closes it. */
+export async function withEvaluator<T>(backend: Backend, body: (evaluator: Evaluator) => Promise<T>): Promise<T> {
+  const evaluator = makeEvaluator(backend);
+  try {
+    return await body(evaluator);
+  } finally {
+    await evaluator.close();
+  }
 }
 
 /** One walker of a repertoire and the courses whose record names it. */

@@ -1,13 +1,8 @@
 import type { Command } from 'commander';
-import { loadBodyPlan, observationSize, actionSize } from '../../body/index.js';
-import { stream, UserError } from '../../core/index.js';
-import { makeEvaluator, threads, sceneBatch } from '../../pool/index.js';
-import { initParams, type PolicyShape } from '../../policy/index.js';
-import { assertPolicyFits, defaultRolloutOptions } from '../../sim/index.js';
-import { writeFileAtomic } from '../../store/index.js';
-import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
+import { UserError } from '../../core/index.js';
+import { threads } from '../../pool/index.js';
+import { evalOnCourse, evalOnExportedCourse } from '../../run/index.js';
 import { hiddenSizes, intIn, oneOf } from '../options.js';
-import { bodyOf, courseOf, findCourse, loadAnyWalker, loadCurriculum, loadSafetensorsWalker, rolloutOptionsOf, walkerRefOf } from '../../export/index.js';
 import { DEFAULT_BODY, DEFAULT_TERRAIN, shipped } from '../shipped.js';
 
 interface EvalOptions {
@@ -17,59 +12,29 @@ interface EvalOptions {
 }
 
 /** One rollout of an exported walker on an exported course, under the run's own settings. */
-async function evalCurriculum(o: EvalOptions): Promise<void> {
+async function evalCurriculum(o: EvalOptions & { curriculum: string }): Promise<void> {
   if (o.course === undefined) throw new UserError('--curriculum needs --course ID');
-  const cur = loadCurriculum(o.curriculum!);
-  const entry = findCourse(cur, o.course);
-  const plan = o.body === undefined ? bodyOf(cur) : loadBodyPlan(o.body);
-  const ref = walkerRefOf(cur, entry);
-  const w = o.walker ? loadSafetensorsWalker(o.walker) : loadSafetensorsWalker(ref.path, ref.sha256);
-  assertPolicyFits(w.shape, plan, o.walker ?? ref.path);
-  const batch = sceneBatch(courseOf(entry), plan, w.shape, { ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 }, Array.from(w.params));
-  const evaluator = makeEvaluator(threads(o.workers ?? 0));
-  try {
-    const [r] = await evaluator.evaluate(batch);
-    if (o.trace && r.trace) writeFileAtomic(o.trace, `${JSON.stringify({ course: batch.courses[0], plan: plan.name, trace: r.trace })}\n`);
-    const expected = o.walker ? null : ref.progress;
-    const summary = { course: entry.id, progress: r.progress, fitness: r.fitness, steps: r.steps, fell: r.fell, end: r.end, exportedProgress: expected, matchesExport: expected === null ? null : r.progress === expected };
-    if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
-    else {
-      const match = expected === null ? '' : r.progress === expected ? '  (equals the exported figure)' : `  (exported figure was ${expected})`;
-      process.stdout.write(`course ${entry.id}: progress ${r.progress.toFixed(4)}${match}  steps ${r.steps}  ${r.fell ? 'fell' : 'did not fall'}  ended: ${r.end}\n`);
-    }
-  } finally {
-    await evaluator.close();
+  const r = await evalOnExportedCourse({ curriculum: o.curriculum, course: o.course, body: o.body, walker: o.walker, trace: o.trace, backend: threads(o.workers ?? 0) });
+  if (o.json) process.stdout.write(`${JSON.stringify(r)}\n`);
+  else {
+    const expected = r.exportedProgress;
+    const match = expected === null ? '' : r.matchesExport ? '  (equals the exported figure)' : `  (exported figure was ${expected})`;
+    process.stdout.write(`course ${r.course}: progress ${r.progress.toFixed(4)}${match}  steps ${r.steps}  ${r.fell ? 'fell' : 'did not fall'}  ended: ${r.end}\n`);
   }
 }
 
 async function evalAction(o: EvalOptions): Promise<void> {
-  if (o.curriculum !== undefined) return evalCurriculum(o);
-  const src = loadTerrainSource(o.terrain ?? shipped(DEFAULT_TERRAIN), o.family);
-  const course = buildCourse(src.genome, src.family);
-  const walker = o.walker ? loadAnyWalker(o.walker) : undefined;
-  const bodyPath = o.body ?? shipped(DEFAULT_BODY);
-  const plan = loadBodyPlan(bodyPath);
-  if (walker?.bodyName !== undefined && walker.bodyName !== plan.name) {
-    throw new UserError(`Walker ${o.walker} was made for body plan "${walker.bodyName}", but --body ${bodyPath} is "${plan.name}"`);
-  }
-  const shape: PolicyShape = walker?.shape ?? { inputs: observationSize(plan), hidden: o.hidden, outputs: actionSize(plan), activation: o.activation };
-  assertPolicyFits(shape, plan, String(o.walker));
-  const params = walker ? Array.from(walker.params) : Array.from(initParams(shape, stream(o.seed, 'walker/init')));
-  const batch = sceneBatch(course, plan, shape, { ...defaultRolloutOptions(), maxSteps: o.steps, traceEvery: o.trace ? 5 : 0 }, params);
-  const evaluator = makeEvaluator(threads(o.workers ?? 0));
-  try {
-    const [r] = await evaluator.evaluate(batch);
-    if (o.trace && r.trace) writeFileAtomic(o.trace, `${JSON.stringify({ course, plan: plan.name, trace: r.trace })}\n`);
-    const summary = { progress: r.progress, fitness: r.fitness, steps: r.steps, fell: r.fell, end: r.end, seconds: r.steps * batch.options[0].physics.timeStep };
-    if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
-    else {
-      process.stdout.write(
-        `progress ${r.progress.toFixed(4)}  fitness ${r.fitness.toFixed(4)}  steps ${r.steps} (${summary.seconds.toFixed(1)} s simulated)  ` +
-          `${r.fell ? 'fell' : 'did not fall'}  ended: ${r.end}\n`,
-      );
-    }
-  } finally {
-    await evaluator.close();
+  if (o.curriculum !== undefined) return evalCurriculum({ ...o, curriculum: o.curriculum });
+  const r = await evalOnCourse({
+    terrain: o.terrain ?? shipped(DEFAULT_TERRAIN), family: o.family, body: o.body ?? shipped(DEFAULT_BODY), walker: o.walker,
+    seed: o.seed, hidden: o.hidden, activation: o.activation, steps: o.steps, trace: o.trace, backend: threads(o.workers ?? 0),
+  });
+  if (o.json) process.stdout.write(`${JSON.stringify(r)}\n`);
+  else {
+    process.stdout.write(
+      `progress ${r.progress.toFixed(4)}  fitness ${r.fitness.toFixed(4)}  steps ${r.steps} (${r.seconds.toFixed(1)} s simulated)  ` +
+        `${r.fell ? 'fell' : 'did not fall'}  ended: ${r.end}\n`,
+    );
   }
 }
 

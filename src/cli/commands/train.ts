@@ -1,16 +1,7 @@
-import { existsSync, mkdirSync } from 'node:fs';
-import { basename, join } from 'node:path';
 import type { Command } from 'commander';
-import { actionSize, loadBodyPlan, observationSize, type BodyPlan } from '../../body/index.js';
 import { plural, UserError } from '../../core/index.js';
-import { freshEsState, trainWalker } from '../../coevo/index.js';
-import { defaultEsConfig } from '../../evolve/index.js';
-import { defaultWorkerCount, makeEvaluator, threads } from '../../pool/index.js';
-import type { PolicyShape } from '../../policy/index.js';
-import { assertPolicyFits, defaultRolloutOptions } from '../../sim/index.js';
-import { loadAnyWalker } from '../../export/index.js';
-import { saveWalker, writeFileAtomic } from '../../store/index.js';
-import { buildCourse, loadTerrainSource } from '../../terrain/index.js';
+import { defaultWorkerCount, threads } from '../../pool/index.js';
+import { trainOnCourse } from '../../run/index.js';
 import { evenIn, hiddenSizes, intIn, numberIn, oneOf } from '../options.js';
 import { formatDuration, Progress } from '../progress.js';
 import { DEFAULT_BODY, DEFAULT_TERRAIN, shipped } from '../shipped.js';
@@ -22,54 +13,17 @@ interface TrainOptions {
   workers: number; stopAt?: number; steps: number; quiet?: boolean; json?: boolean; force?: boolean; walker?: string;
 }
 
-/** The network and starting weights: those of `--walker FILE`, or a fresh walker of the given shape. */
-function startingWalker(o: TrainOptions, plan: BodyPlan): { shape: PolicyShape; initial?: ArrayLike<number> } {
-  if (!o.walker) return { shape: { inputs: observationSize(plan), hidden: o.hidden, outputs: actionSize(plan), activation: o.activation } };
-  const w = loadAnyWalker(o.walker);
-  if (w.bodyName !== undefined && w.bodyName !== plan.name) throw new UserError(`Walker ${o.walker} was made for body plan "${w.bodyName}", but the body plan here is "${plan.name}"; pass --body`);
-  assertPolicyFits(w.shape, plan, o.walker);
-  return { shape: w.shape, initial: w.params };
-}
-
-function stem(path: string): string {
-  return basename(path).replace(/\.json$/, '');
-}
-
 async function trainAction(o: TrainOptions & Partial<CurriculumTrainOptions>): Promise<void> {
   if (o.curriculum !== undefined && o.walker !== undefined) throw new UserError('--walker does not combine with --curriculum (a curriculum path starts from a fresh walker, like the direct path it is compared with)');
   if (o.curriculum !== undefined) return trainCurriculumAction(o as CurriculumTrainOptions);
-  const terrain = o.terrain ?? shipped(DEFAULT_TERRAIN);
-  const body = o.body ?? shipped(DEFAULT_BODY);
-  const src = loadTerrainSource(terrain, o.family);
-  const plan = loadBodyPlan(body);
-  const out = o.out ?? join('runs', `train-${stem(terrain)}-${plan.name}-s${o.seed}`);
-  if (!o.force && existsSync(join(out, 'walker.json'))) throw new UserError(`${out} already holds a trained walker; choose another --out, remove it, or pass --force`);
-  const course = buildCourse(src.genome, src.family);
-  const { shape, initial } = startingWalker(o, plan);
-  const es = { ...defaultEsConfig(), population: o.population, sigma: o.sigma, learningRate: o.learningRate };
-  const settings = { iterations: o.iterations, stopAtProgress: o.stopAt, es, rollout: { ...defaultRolloutOptions(), maxSteps: o.steps }, seed: o.seed };
-  mkdirSync(out, { recursive: true });
   const progress = new Progress(o.quiet === true);
-  const lines: string[] = [];
-  const t0 = performance.now();
-  const evaluator = makeEvaluator(threads(o.workers));
-  try {
-    const result = await trainWalker(course, plan, shape, freshEsState(shape, o.seed, initial), settings, evaluator, (l) => {
-      const seconds = (performance.now() - t0) / 1000;
-      lines.push(JSON.stringify({ ...l, seconds }));
-      progress.update(`iteration ${l.iteration}/${o.iterations}  progress ${l.progress.toFixed(3)}  best candidate ${l.bestCandidateProgress.toFixed(3)}  ${formatDuration(seconds)}`);
-    });
-    progress.done();
-    const seconds = (performance.now() - t0) / 1000;
-    writeFileAtomic(join(out, 'train-log.jsonl'), `${lines.join('\n')}\n`);
-    const meta = { ...(o.walker ? { from: o.walker } : {}), terrain, family: src.familyPath, genome: src.genome, iterations: result.log.length, progress: result.finalProgress, seed: o.seed, es };
-    saveWalker(join(out, 'walker.json'), { body, bodyName: plan.name, shape, params: result.state.mean, meta });
-    const summary = { out, iterations: result.log.length, progress: result.finalProgress, rollouts: result.rollouts, seconds };
-    if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
-    else process.stdout.write(`trained ${plural(result.log.length, 'iteration')} in ${formatDuration(seconds)}: progress ${result.finalProgress.toFixed(3)}; walker written to ${join(out, 'walker.json')}\n`);
-  } finally {
-    await evaluator.close();
-  }
+  const r = await trainOnCourse({ ...o, terrain: o.terrain ?? shipped(DEFAULT_TERRAIN), body: o.body ?? shipped(DEFAULT_BODY), backend: threads(o.workers) }, {
+    onIteration: (l, seconds) => progress.update(`iteration ${l.iteration}/${o.iterations}  progress ${l.progress.toFixed(3)}  best candidate ${l.bestCandidateProgress.toFixed(3)}  ${formatDuration(seconds)}`),
+    onTrained: () => progress.done(),
+  });
+  const summary = { out: r.out, iterations: r.iterations, progress: r.progress, rollouts: r.rollouts, seconds: r.seconds };
+  if (o.json) process.stdout.write(`${JSON.stringify(summary)}\n`);
+  else process.stdout.write(`trained ${plural(r.iterations, 'iteration')} in ${formatDuration(r.seconds)}: progress ${r.progress.toFixed(3)}; walker written to ${r.walkerFile}\n`);
 }
 
 export function registerTrain(program: Command): void {

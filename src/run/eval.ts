@@ -1,0 +1,104 @@
+import { loadBodyPlan } from '../body/index.js';
+import { stream, UserError } from '../core/index.js';
+import { bodyOf, courseOf, findCourse, loadAnyWalker, loadCurriculum, loadSafetensorsWalker, rolloutOptionsOf, walkerRefOf } from '../export/index.js';
+import { sceneBatch, type Backend, type Batch } from '../pool/index.js';
+import { initParams, type Activation } from '../policy/index.js';
+import { assertPolicyFits, defaultRolloutOptions, type RolloutResult } from '../sim/index.js';
+import { writeFileAtomic } from '../store/index.js';
+import { buildCourse, loadTerrainSource } from '../terrain/index.js';
+import { freshShape, withEvaluator } from './scene.js';
+
+/** `cairn eval` on a terrain family or genome file. */
+export interface CourseEvalOptions {
+  /** Terrain family (its start genome) or genome file. */
+  readonly terrain: string;
+  /** Terrain family of a bare genome file. */
+  readonly family?: string;
+  /** Body plan file. */
+  readonly body: string;
+  /** Walker file (cairn walker JSON or exported .safetensors); absent = a fresh walker from `seed`. */
+  readonly walker?: string;
+  readonly seed: number;
+  /** Network of a fresh walker. */
+  readonly hidden: readonly number[];
+  readonly activation: Activation;
+  /** Step budget. */
+  readonly steps: number;
+  /** File for the course and the walker's poses (every 5 steps) as JSON. */
+  readonly trace?: string;
+  readonly backend: Backend;
+}
+
+/** One rollout's figures; `seconds` is simulated time (s). */
+export interface CourseEval {
+  readonly progress: number;
+  readonly fitness: number;
+  readonly steps: number;
+  readonly fell: boolean;
+  readonly end: RolloutResult['end'];
+  readonly seconds: number;
+}
+
+/** `cairn eval --curriculum`: one course of an exported curriculum. */
+export interface ExportedEvalOptions {
+  /** The exported curriculum.json. */
+  readonly curriculum: string;
+  /** Course id in it. */
+  readonly course: number;
+  /** Body plan file; absent = the exported one. */
+  readonly body?: string;
+  /** Walker file; absent = the one the export records for the course (its SHA-256 checked). */
+  readonly walker?: string;
+  readonly trace?: string;
+  readonly backend: Backend;
+}
+
+/** The rollout's figures beside the exported ones (null when another walker was given). */
+export interface ExportedEval {
+  readonly course: number;
+  readonly progress: number;
+  readonly fitness: number;
+  readonly steps: number;
+  readonly fell: boolean;
+  readonly end: RolloutResult['end'];
+  readonly exportedProgress: number | null;
+  readonly matchesExport: boolean | null;
+}
+
+/** Runs a one-task batch on the backend's evaluator and writes its trace, when asked, beside the course and plan name. */
+async function rolloutOnce(batch: Batch, planName: string, backend: Backend, trace: string | undefined): Promise<RolloutResult> {
+  const [r] = await withEvaluator(backend, (evaluator) => evaluator.evaluate(batch));
+  if (trace && r.trace) writeFileAtomic(trace, `${JSON.stringify({ course: batch.courses[0], plan: planName, trace: r.trace })}\n`);
+  return r;
+}
+
+/** One rollout of a given walker (or a fresh one from the seed) on a course built from a terrain file. */
+export async function evalOnCourse(o: CourseEvalOptions): Promise<CourseEval> {
+  const src = loadTerrainSource(o.terrain, o.family);
+  const course = buildCourse(src.genome, src.family);
+  const walker = o.walker ? loadAnyWalker(o.walker) : undefined;
+  const plan = loadBodyPlan(o.body);
+  if (walker?.bodyName !== undefined && walker.bodyName !== plan.name) {
+    throw new UserError(`Walker ${o.walker} was made for body plan "${walker.bodyName}", but --body ${o.body} is "${plan.name}"`);
+  }
+  const shape = walker?.shape ?? freshShape(plan, o.hidden, o.activation);
+  assertPolicyFits(shape, plan, String(o.walker));
+  const params = walker ? Array.from(walker.params) : Array.from(initParams(shape, stream(o.seed, 'walker/init')));
+  const batch = sceneBatch(course, plan, shape, { ...defaultRolloutOptions(), maxSteps: o.steps, traceEvery: o.trace ? 5 : 0 }, params);
+  const r = await rolloutOnce(batch, plan.name, o.backend, o.trace);
+  return { progress: r.progress, fitness: r.fitness, steps: r.steps, fell: r.fell, end: r.end, seconds: r.steps * batch.options[0].physics.timeStep };
+}
+
+/** One rollout of an exported walker (or a given one) on an exported course, under the run's own settings. */
+export async function evalOnExportedCourse(o: ExportedEvalOptions): Promise<ExportedEval> {
+  const cur = loadCurriculum(o.curriculum);
+  const entry = findCourse(cur, o.course);
+  const plan = o.body === undefined ? bodyOf(cur) : loadBodyPlan(o.body);
+  const ref = walkerRefOf(cur, entry);
+  const w = o.walker ? loadSafetensorsWalker(o.walker) : loadSafetensorsWalker(ref.path, ref.sha256);
+  assertPolicyFits(w.shape, plan, o.walker ?? ref.path);
+  const batch = sceneBatch(courseOf(entry), plan, w.shape, { ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 }, Array.from(w.params));
+  const r = await rolloutOnce(batch, plan.name, o.backend, o.trace);
+  const expected = o.walker ? null : ref.progress;
+  return { course: entry.id, progress: r.progress, fitness: r.fitness, steps: r.steps, fell: r.fell, end: r.end, exportedProgress: expected, matchesExport: expected === null ? null : r.progress === expected };
+}
