@@ -5,6 +5,11 @@ import type { RunContext } from './context.js';
 import type { Draft } from './draft.js';
 import type { PairState } from './state.js';
 
+/** Whether a course was crossed (or solved, which implies a crossing) at some point. */
+export function crossedOrSolved(c: { readonly crossedAt: number | null; readonly solvedAt: number | null }): boolean {
+  return c.crossedAt !== null || c.solvedAt !== null;
+}
+
 /** Whether pair `p` is due a confirmation this iteration: at the threshold, not solved, and its last try (if any) `retryEvery` or more iterations ago. */
 export function confirmationDue(ctx: RunContext, draft: Draft, p: PairState): boolean {
   const { threshold, retryEvery } = ctx.recipe.solve;
