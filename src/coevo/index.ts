@@ -1,11 +1,11 @@
 export { planEsStep, finishEsStep } from './es-batch.js';
 export type { EsSlots, PlannedEsStep, EsStepOutcome } from './es-batch.js';
 export { trainWalker, freshEsState } from './train.js';
-export type { TrainSettings, TrainLogLine, TrainOutcome } from './train.js';
+export type { TrainSettings, TrainLogLine, TrainOutcome, BestMean } from './train.js';
 export { recipeSchema, parseRecipe, loadRecipe, applySets } from './recipe.js';
 export type { Recipe } from './recipe.js';
 export type { CandidateOutcome, BestOnCourse, CourseRecord, PairState, RunState, RunEvent, IterationMetrics } from './state.js';
-export { makeContext, initialState, courseOf, recipeHashOf } from './context.js';
+export { makeContext, initialState, courseOf, recipeHashOf, strictRolloutOf } from './context.js';
 export { PhaseBatch, PhaseResults } from './batch.js';
 export type { CourseHandle, OptionsHandle, BaseHandle, TaskHandle, Solver } from './batch.js';
 export type { RunContext } from './context.js';
@@ -20,5 +20,6 @@ export { lineageOf, lineages, lineageRollouts, childCounts, dominantKind, liveLi
 export type { LiveLineage } from './lineage.js';
 export { newGround, coverage, coveredCells, gridCell, gridSpec, solvedInOrder } from './measures.js';
 export type { GridSpec } from './measures.js';
-export { confirmationDue, markCrossings, crossedOrSolved } from './solve.js';
+export { confirmationDue, markCrossings, crossedOrSolved, confirmationPushes, confirmationHolds } from './solve.js';
+export type { ConfirmRule } from './solve.js';
 export { retirementOrder, drawParent } from './admission.js';
