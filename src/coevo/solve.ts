@@ -1,5 +1,9 @@
 import { stream, type Stream } from '../core/index.js';
-import type { Evaluator } from '../pool/index.js';
+import type { BodyPlan } from '../body/index.js';
+import { sceneBatch, type Evaluator } from '../pool/index.js';
+import type { PolicyShape } from '../policy/index.js';
+import type { RolloutOptions } from '../sim/index.js';
+import type { Course } from '../terrain/index.js';
 import { PhaseBatch } from './batch.js';
 import type { RunContext } from './context.js';
 import type { Draft } from './draft.js';
@@ -20,6 +24,22 @@ export function confirmationPushes(rule: ConfirmRule, s: Stream): number[] {
 /** A confirmation holds when every one of its rollouts reached the threshold. */
 export function confirmationHolds(rule: ConfirmRule, progress: readonly number[]): boolean {
   return progress.every((x) => x >= rule.threshold);
+}
+
+/**
+ * Confirms one walker on one course outside a run, by the rule the run's solve phase applies:
+ * `rule.checks` rollouts of `params` under `strict` (the stricter solver), pushed as
+ * {@link confirmationPushes} draws them from `s`, all reaching the threshold.
+ */
+export async function confirmWalker(
+  course: Course, plan: BodyPlan, shape: PolicyShape, strict: RolloutOptions, params: readonly number[], rule: ConfirmRule, s: Stream, evaluator: Evaluator,
+): Promise<{ readonly ok: boolean; readonly checks: readonly number[] }> {
+  const batch = sceneBatch(course, plan, shape, strict);
+  for (const push of confirmationPushes(rule, s)) {
+    batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: batch.options.push(push === 0 ? strict : { ...strict, push }) - 1, policy: { kind: 'params', params } });
+  }
+  const checks = batch.tasks.length === 0 ? [] : (await evaluator.evaluate(batch)).map((r) => r.progress);
+  return { ok: confirmationHolds(rule, checks), checks };
 }
 
 /** Whether a course was crossed (or solved, which implies a crossing) at some point. */
