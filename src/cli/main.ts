@@ -9,6 +9,7 @@ import { registerExport } from './commands/export.js';
 import { registerReport } from './commands/report.js';
 import { registerWorker } from './commands/worker.js';
 import { registerLookup } from './commands/lookup.js';
+import { registerBaseline } from './commands/baseline.js';
 import { EXIT, reportError } from './fail.js';
 
 const program = new Command();
@@ -26,6 +27,7 @@ registerReport(program);
 registerEval(program);
 registerLookup(program);
 registerTrain(program);
+registerBaseline(program);
 registerBench(program);
 registerWorker(program);
 for (const c of program.commands) c.exitOverride();

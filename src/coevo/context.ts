@@ -37,18 +37,23 @@ export function recipeHashOf(recipe: Recipe, family: TerrainFamily, plan: BodyPl
   return hashValue(sources.length > 0 ? { recipe: rest, family, plan, sources } : { recipe: rest, family, plan });
 }
 
+/** The stricter solver that confirms solves: `rollout` with twice its velocity and position iterations. */
+export function strictRolloutOf(rollout: RolloutOptions): RolloutOptions {
+  const p = rollout.physics;
+  return { ...rollout, physics: { ...p, velocityIterations: 2 * p.velocityIterations, positionIterations: 2 * p.positionIterations } };
+}
+
 /** Derives everything fixed for a run from its recipe, family and body plan: the one place this is done. */
 export function makeContext(recipe: Recipe, family: TerrainFamily, plan: BodyPlan, sources: readonly BranchSource[] = []): RunContext {
   const e = recipe.episode;
   const physics = { gravity: e.gravity, timeStep: e.timeStep, velocityIterations: e.velocityIterations, positionIterations: e.positionIterations };
   const rollout: RolloutOptions = { ...defaultRolloutOptions(), physics, maxSteps: e.maxSteps, stallSeconds: e.stallSeconds, stallDistance: e.stallDistance, fallPenalty: e.fallPenalty };
-  const strict = { ...physics, velocityIterations: 2 * e.velocityIterations, positionIterations: 2 * e.positionIterations };
   return {
     recipe, family, plan,
     shape: { inputs: observationSize(plan), hidden: recipe.policy.hidden, outputs: actionSize(plan), activation: recipe.policy.activation },
     es: recipe.es,
     rollout,
-    strictRollout: { ...rollout, physics: strict },
+    strictRollout: strictRolloutOf(rollout),
     recipeHash: recipeHashOf(recipe, family, plan, sources),
     sources,
     courseCache: new Map(),

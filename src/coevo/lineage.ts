@@ -23,6 +23,17 @@ export function lineages(courses: readonly CourseRecord[]): Map<number, number> 
   return out;
 }
 
+/**
+ * Rollouts spent on each course's line of descent, by id: its own `rollouts` plus those of its
+ * parent, grandparent and so on up to its starting course. Parents are admitted before their
+ * children, so one pass in admission order suffices.
+ */
+export function lineageRollouts(courses: readonly CourseRecord[]): Map<number, number> {
+  const out = new Map<number, number>();
+  for (const c of courses) out.set(c.id, c.rollouts + (c.parent === null ? 0 : out.get(c.parent) ?? 0));
+  return out;
+}
+
 /** Number of admitted children of each course, by id. */
 export function childCounts(courses: readonly CourseRecord[]): Map<number, number> {
   const out = new Map<number, number>();

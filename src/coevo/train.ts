@@ -17,6 +17,20 @@ export interface TrainSettings {
   readonly rollout: RolloutOptions;
   /** Run seed: fixes the initial weights and every perturbation. */
   readonly seed: number;
+  /**
+   * Largest horizontal push on the torso at the start of candidate rollouts, N·s, as a run's
+   * `episode.trainingPush`: one push per iteration drawn in [−push, push] and shared by all
+   * candidates, the mean unpushed. Absent or 0 = no push.
+   */
+  readonly candidatePush?: number;
+}
+
+/** The mean weights whose own rollout went farthest during training. */
+export interface BestMean {
+  readonly progress: number;
+  /** ES updates those weights had had (0 = the starting weights). */
+  readonly updates: number;
+  readonly params: readonly number[];
 }
 
 /** One line of a training log. */
@@ -38,6 +52,8 @@ export interface TrainOutcome {
   /** Progress of the final weights (one more rollout of the updated mean). */
   readonly finalProgress: number;
   readonly rollouts: number;
+  /** Best progress of the mean over training, the final weights included (first reached wins ties). */
+  readonly best: BestMean;
 }
 
 /** A fresh ES state for a walker of `shape`: weights from the seed unless `initial` is given. */
@@ -57,12 +73,23 @@ export async function trainWalker(
   let state = start;
   let rollouts = 0;
   const log: TrainLogLine[] = [];
+  let best: BestMean = { progress: -Infinity, updates: 0, params: [] };
+  const note = (progress: number, updates: number, params: ArrayLike<number>): void => {
+    if (progress > best.progress) best = { progress, updates, params: Array.from(params) };
+  };
+  const maxPush = settings.candidatePush ?? 0;
   for (let it = 0; it < settings.iterations; it++) {
     const batch = sceneBatch(course, plan, shape, settings.rollout);
     batch.bases.push([...state.mean]);
-    const planned = planEsStep(state, settings.es, { course: 0, plan: 0, shape: 0, options: 0, base: 0 }, batch.tasks);
+    if (maxPush > 0) {
+      // Common random numbers, as in a run's ES phase: one push for all of this iteration's candidates.
+      batch.options.push({ ...settings.rollout, push: stream(settings.seed, `walker/iteration/${it + 1}/push`).uniform(-maxPush, maxPush) });
+    }
+    const slots = { course: 0, plan: 0, shape: 0, options: maxPush > 0 ? 1 : 0, meanOptions: 0, base: 0 };
+    const planned = planEsStep(state, settings.es, slots, batch.tasks);
     const results = await evaluator.evaluate(batch);
     const out = finishEsStep(planned, settings.es, results);
+    note(out.meanResult.progress, it, state.mean);
     rollouts += results.length;
     const line: TrainLogLine = {
       iteration: it + 1,
@@ -78,5 +105,6 @@ export async function trainWalker(
     state = out.state;
   }
   const [final] = await evaluator.evaluate(sceneBatch(course, plan, shape, settings.rollout, state.mean));
-  return { state, log, finalProgress: final.progress, rollouts: rollouts + 1 };
+  note(final.progress, log.length, state.mean);
+  return { state, log, finalProgress: final.progress, rollouts: rollouts + 1, best };
 }

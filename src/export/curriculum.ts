@@ -1,6 +1,6 @@
 import { observationNames, type BodyPlan } from '../body/index.js';
 import { sha256 } from '../core/index.js';
-import { fingerprint, type BestOnCourse, type CourseRecord, type RunContext, type RunState } from '../coevo/index.js';
+import { fingerprint, crossedOrSolved, lineageRollouts, type BestOnCourse, type CourseRecord, type RunContext, type RunState } from '../coevo/index.js';
 import type { PolicyShape } from '../policy/index.js';
 import { buildCourse, DESCRIPTOR_NAMES, difficulty, type Course } from '../terrain/index.js';
 import { encodeSafetensors } from './safetensors.js';
@@ -11,7 +11,8 @@ export const CURRICULUM_VERSION = 1;
 export const SCHEMA_FILE = 'curriculum.schema.json';
 
 export type Order = 'admission' | 'difficulty';
-export type Only = 'solved' | 'all';
+/** Which courses an export keeps: solved ones, crossed or solved ones, or all. */
+export type Only = 'solved' | 'crossed' | 'all';
 
 /** A walker file to write beside the curriculum. */
 export interface WalkerBlob {
@@ -66,7 +67,9 @@ function walkerMetadata(plan: BodyPlan, shape: PolicyShape): Record<string, stri
 export function buildCurriculum(ctx: RunContext, state: RunState, order: Order, only: Only): { curriculum: Record<string, unknown>; walkers: WalkerBlob[] } {
   const files = new WalkerFiles(ctx.shape, walkerMetadata(ctx.plan, ctx.shape));
   const diff = (c: CourseRecord): number => difficulty(c.genome, ctx.family);
-  let courses = state.courses.filter((c) => only === 'all' || c.solvedAt !== null);
+  const keep = { all: () => true, crossed: crossedOrSolved, solved: (c: CourseRecord) => c.solvedAt !== null }[only];
+  const lineage = lineageRollouts(state.courses);
+  let courses = state.courses.filter(keep);
   if (order === 'difficulty') courses = [...courses].sort((a, b) => diff(a) - diff(b) || a.id - b.id);
   const active = new Set(state.pairs.map((p) => p.courseId));
   const entries = courses.map((c) => ({
@@ -81,7 +84,10 @@ export function buildCurriculum(ctx: RunContext, state: RunState, order: Order, 
     geometry: geometry(buildCourse(c.genome, ctx.family)),
     admission: { bestProgress: c.admission.bestProgress, walkerId: c.admission.walkerId, novelty: c.admission.novelty, band: [ctx.recipe.admission.low, ctx.recipe.admission.high] },
     best: { progress: c.best.progress, walker: files.add(c.best) },
+    crossedAt: c.crossedAt,
     solvedAt: c.solvedAt,
+    rollouts: c.rollouts,
+    lineageRollouts: lineage.get(c.id)!,
     solvedBy: c.solvedBy ? { progress: c.solvedBy.progress, walker: files.add(c.solvedBy) } : null,
     holders: c.holders,
     ...(c.source ? { source: c.source } : {}),
@@ -99,6 +105,7 @@ export function buildCurriculum(ctx: RunContext, state: RunState, order: Order, 
     physics: { gravity: e.gravity, timeStep: e.timeStep, velocityIterations: e.velocityIterations, positionIterations: e.positionIterations },
     episode: { maxSteps: e.maxSteps, stallSeconds: e.stallSeconds, stallDistance: e.stallDistance, fallPenalty: e.fallPenalty },
     solveThreshold: ctx.recipe.solve.threshold,
+    training: { es: { ...ctx.es }, trainingPush: e.trainingPush, solve: { checks: ctx.recipe.solve.checks, push: ctx.recipe.solve.push } },
     body: { file: 'body.json', name: ctx.plan.name, actionMode: ctx.plan.action, observation: observationNames(ctx.plan), actions: ctx.plan.joints.map((j) => j.name) },
     family: { file: 'family.json', name: ctx.family.name },
     policy: ctx.shape,

@@ -9,4 +9,4 @@ export { curriculumSchema, curriculumSchemaText, curriculumProblems, assertCurri
 export { writeExport } from './write.js';
 export type { ExportResult } from './write.js';
 export { loadCurriculum, findCourse, courseOf, rolloutOptionsOf, bodyOf, loadSafetensorsWalker, loadAnyWalker, walkerRefOf } from './read.js';
-export type { Curriculum, CurriculumEntry } from './read.js';
+export type { Curriculum, CurriculumEntry, CurriculumTraining } from './read.js';

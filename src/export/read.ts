@@ -2,6 +2,7 @@ import { readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { loadBodyPlan, type BodyPlan } from '../body/index.js';
 import { readJsonFile, sha256, UserError } from '../core/index.js';
+import type { EsConfig } from '../evolve/index.js';
 import type { PolicyShape } from '../policy/index.js';
 import { defaultRolloutOptions, type RolloutOptions } from '../sim/index.js';
 import { loadWalker } from '../store/index.js';
@@ -22,6 +23,18 @@ export interface CurriculumEntry {
   readonly best: { progress: number; walker: WalkerRefJson };
   readonly solvedBy: { progress: number; walker: WalkerRefJson } | null;
   readonly solvedAt: number | null;
+  /** Absent in exports written before they were recorded. */
+  readonly crossedAt?: number | null;
+  readonly rollouts?: number;
+  readonly lineageRollouts?: number;
+}
+
+/** How the run trained and confirmed walkers (absent in exports written before it was recorded). */
+export interface CurriculumTraining {
+  readonly es: EsConfig;
+  /** Largest horizontal push on ES candidates, N·s. */
+  readonly trainingPush: number;
+  readonly solve: { readonly checks: number; readonly push: number };
 }
 
 export interface Curriculum {
@@ -30,6 +43,10 @@ export interface Curriculum {
   readonly physics: { gravity: number; timeStep: number; velocityIterations: number; positionIterations: number };
   readonly episode: { maxSteps: number; stallSeconds: number; stallDistance: number; fallPenalty: number };
   readonly solveThreshold: number;
+  readonly training?: CurriculumTraining;
+  readonly run: { readonly name: string; readonly seed: number; readonly iteration: number; readonly fingerprint: string; readonly recipeHash: string };
+  readonly policy: PolicyShape;
+  readonly family: { readonly file: string; readonly name: string };
   readonly body: { file: string; name: string };
   readonly courses: readonly CurriculumEntry[];
 }

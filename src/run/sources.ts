@@ -1,13 +1,14 @@
 import { existsSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import type { BodyPlan } from '../body/index.js';
-import type { BestOnCourse } from '../coevo/index.js';
+import { lineageRollouts, type BestOnCourse, type ConfirmRule, type CourseRecord } from '../coevo/index.js';
+import type { EsConfig } from '../evolve/index.js';
 import { readJsonFile, UserError } from '../core/index.js';
 import { bodyOf, CURRICULUM_FORMAT, courseOf as exportedCourse, loadCurriculum, loadSafetensorsWalker, rolloutOptionsOf, type Curriculum, type CurriculumEntry } from '../export/index.js';
 import type { PolicyShape } from '../policy/index.js';
 import type { RolloutOptions } from '../sim/index.js';
 import { RECIPE } from '../store/index.js';
-import { buildCourse, loadFamily, type Course, type TerrainFamily, type TerrainGenome } from '../terrain/index.js';
+import { buildCourse, difficulty, loadFamily, type Course, type TerrainFamily, type TerrainGenome } from '../terrain/index.js';
 import { Run } from './run.js';
 
 /** One walker of a source: its id, the iteration its weights date from, and the weights exactly. */
@@ -27,6 +28,27 @@ export interface SourceCourse {
   readonly course: Course;
   readonly holder: SourceWalker;
   readonly others: readonly SourceWalker[];
+  /** The source's bookkeeping of the course; null for an export written before it recorded crossings and rollouts. */
+  readonly figures: CourseFigures | null;
+}
+
+/** What a source recorded about one course. */
+export interface CourseFigures {
+  readonly difficulty: number;
+  /** Best progress any walker reached on it under the run's own solver. */
+  readonly bestProgress: number;
+  readonly crossedAt: number | null;
+  readonly solvedAt: number | null;
+  /** Rollouts the run spent on the course and all its ancestors. */
+  readonly lineageRollouts: number;
+}
+
+/** How the source run trained walkers and confirmed solves. */
+export interface SourceTraining {
+  readonly es: EsConfig;
+  /** Largest horizontal push on ES candidates, N·s. */
+  readonly trainingPush: number;
+  readonly solve: ConfirmRule;
 }
 
 /** A run directory or curriculum export read as courses with walkers: what branching and lookup draw on. */
@@ -35,6 +57,10 @@ export interface Source {
   readonly path: string;
   /** Fingerprint of the source run's state (an export records its run's). */
   readonly fingerprint: string;
+  /** Iteration of the state read (an export records its run's). */
+  readonly iteration: number;
+  /** The run's ES and solve settings; null for an export written before it recorded them. */
+  readonly training: SourceTraining | null;
   readonly plan: BodyPlan;
   readonly family: TerrainFamily;
   readonly shape: PolicyShape;
@@ -50,11 +76,20 @@ function walkerOfRun(b: BestOnCourse): SourceWalker {
 function fromRun(dir: string): Source {
   const run = Run.open(dir);
   const { state } = run.latest();
+  const lineage = lineageRollouts(state.courses);
+  const figures = (c: CourseRecord): CourseFigures => ({
+    difficulty: difficulty(c.genome, run.inputs.family), bestProgress: c.best.progress, crossedAt: c.crossedAt, solvedAt: c.solvedAt, lineageRollouts: lineage.get(c.id)!,
+  });
   const courses = state.courses.map((c): SourceCourse => {
     const holder = walkerOfRun(c.solvedBy ?? c.best);
-    return { id: c.id, genome: c.genome, course: buildCourse(c.genome, run.inputs.family), holder, others: c.solvedBy ? [walkerOfRun(c.best)] : [] };
+    return { id: c.id, genome: c.genome, course: buildCourse(c.genome, run.inputs.family), holder, others: c.solvedBy ? [walkerOfRun(c.best)] : [], figures: figures(c) };
   });
-  return { kind: 'run', path: run.dir, fingerprint: run.fingerprint(state), plan: run.inputs.plan, family: run.inputs.family, shape: run.ctx.shape, rollout: run.ctx.rollout, courses };
+  const { recipe } = run.inputs;
+  const training = { es: run.ctx.es, trainingPush: recipe.episode.trainingPush, solve: { threshold: recipe.solve.threshold, checks: recipe.solve.checks, push: recipe.solve.push } };
+  return {
+    kind: 'run', path: run.dir, fingerprint: run.fingerprint(state), iteration: state.iteration, training,
+    plan: run.inputs.plan, family: run.inputs.family, shape: run.ctx.shape, rollout: run.ctx.rollout, courses,
+  };
 }
 
 function fromExport(file: string): Source {
@@ -63,17 +98,22 @@ function fromExport(file: string): Source {
     throw new UserError(`Source ${file} is not a curriculum export (expected a JSON object with format "${CURRICULUM_FORMAT}") nor a run directory`);
   }
   const cur: Curriculum = loadCurriculum(file);
-  const json = cur as unknown as { run: { fingerprint: string }; family: { file: string }; policy: PolicyShape };
   const walker = (ref: CurriculumEntry['best']): SourceWalker => {
     const w = loadSafetensorsWalker(join(cur.dir, ref.walker.file), ref.walker.sha256);
     return { walkerId: ref.walker.id, iteration: ref.walker.iteration, progress: ref.progress, params: Array.from(w.params) };
   };
-  const courses = cur.courses.map((e): SourceCourse => {
-    return { id: e.id, genome: e.genome, course: exportedCourse(e), holder: walker(e.solvedBy ?? e.best), others: e.solvedBy ? [walker(e.best)] : [] };
+  const figures = (e: CurriculumEntry): CourseFigures | null => (e.crossedAt === undefined || e.lineageRollouts === undefined ? null : {
+    difficulty: e.difficulty, bestProgress: e.best.progress, crossedAt: e.crossedAt, solvedAt: e.solvedAt, lineageRollouts: e.lineageRollouts,
   });
+  const courses = cur.courses.map((e): SourceCourse => {
+    return { id: e.id, genome: e.genome, course: exportedCourse(e), holder: walker(e.solvedBy ?? e.best), others: e.solvedBy ? [walker(e.best)] : [], figures: figures(e) };
+  });
+  const t = cur.training;
   return {
-    kind: 'export', path: cur.path, fingerprint: json.run.fingerprint, plan: bodyOf(cur), family: loadFamily(join(cur.dir, json.family.file)),
-    shape: json.policy, rollout: rolloutOptionsOf(cur), courses,
+    kind: 'export', path: cur.path, fingerprint: cur.run.fingerprint, iteration: cur.run.iteration,
+    training: t ? { es: t.es, trainingPush: t.trainingPush, solve: { threshold: cur.solveThreshold, ...t.solve } } : null,
+    plan: bodyOf(cur), family: loadFamily(join(cur.dir, cur.family.file)),
+    shape: cur.policy, rollout: rolloutOptionsOf(cur), courses,
   };
 }
 

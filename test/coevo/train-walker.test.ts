@@ -40,4 +40,31 @@ describe('trainWalker', () => {
     // The returned weights are the ones that reached the target: evaluating them again gives the same progress.
     expect(out.finalProgress).toBe(last.progress);
   });
+
+  it('with candidatePush 0 trains exactly as without it; a push changes the candidates but never the mean\'s own rollout', async () => {
+    const { course, plan, shape } = setup();
+    const base = { iterations: 3, es: { ...defaultEsConfig(), population: 8 }, rollout: { ...defaultRolloutOptions(), maxSteps: 300 }, seed: 7 };
+    const plain = await trainWalker(course, plan, shape, freshEsState(shape, 7), base, new InlineEvaluator());
+    const zero = await trainWalker(course, plan, shape, freshEsState(shape, 7), { ...base, candidatePush: 0 }, new InlineEvaluator());
+    const pushed = await trainWalker(course, plan, shape, freshEsState(shape, 7), { ...base, candidatePush: 0.3 }, new InlineEvaluator());
+    expect(zero.log).toEqual(plain.log);
+    expect(zero.state.mean).toEqual(plain.state.mean);
+    // Iteration 1 evaluates the same starting mean unpushed; its candidates ran pushed, so the update differs.
+    expect(pushed.log[0].progress).toBe(plain.log[0].progress);
+    expect(pushed.log[0].bestCandidateProgress).not.toBe(plain.log[0].bestCandidateProgress);
+    expect(pushed.state.mean).not.toEqual(plain.state.mean);
+    expect(pushed.rollouts).toBe(plain.rollouts);
+  });
+
+  it('returns the best mean of the whole training with the weights that reached it', async () => {
+    const { course, plan, shape } = setup();
+    const settings = { iterations: 4, es: { ...defaultEsConfig(), population: 8 }, rollout: { ...defaultRolloutOptions(), maxSteps: 300 }, seed: 3, candidatePush: 0.2 };
+    const out = await trainWalker(course, plan, shape, freshEsState(shape, 3), settings, new InlineEvaluator());
+    const figures = [...out.log.map((l) => l.progress), out.finalProgress];
+    expect(out.best.progress).toBe(Math.max(...figures));
+    expect(out.best.updates).toBe(figures.indexOf(out.best.progress));
+    // Evaluated again on its own, unpushed, the best weights give the same progress.
+    const again = await trainWalker(course, plan, shape, freshEsState(shape, 3, out.best.params), { ...settings, iterations: 0 }, new InlineEvaluator());
+    expect(again.finalProgress).toBe(out.best.progress);
+  });
 });

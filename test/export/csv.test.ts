@@ -117,6 +117,8 @@ describe('summary.csv of an export', () => {
       expect(r[col('parent_id')]).toBe(c.parent === null ? '' : String(c.parent));
       expect(r[col('kinds')]).toBe(c.genome.features.map((f: { kind: string }) => f.kind).join(' '));
       expect(r[col('solved_at')]).toBe(c.solvedAt === null ? '' : String(c.solvedAt));
+      expect(r[col('crossed_at')]).toBe(c.crossedAt === null ? '' : String(c.crossedAt));
+      expect([Number(r[col('rollouts')]), Number(r[col('lineage_rollouts')])]).toEqual([c.rollouts, c.lineageRollouts]);
     });
   });
 });

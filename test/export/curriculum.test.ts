@@ -3,11 +3,12 @@
  * genome and family build, the difficulty follows its documented definition, and --order and
  * --only give the order and the subset they promise.
  */
+import { cpSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { CourseRecord } from '../../src/coevo/index.js';
 import { writeExport } from '../../src/export/index.js';
-import { openRun } from '../../src/store/index.js';
+import { openRun, writeCheckpoint } from '../../src/store/index.js';
 import { Run } from '../../src/run/index.js';
 import { buildCourse, descriptor, loadFamily, validateGenome, type TerrainGenome } from '../../src/terrain/index.js';
 import { cleanup, exportRun, readJson, ROOT, smokeRun, solvedVariant, tempDir, type SolvedVariant } from './helpers.js';
@@ -129,6 +130,45 @@ describe('an export of the smoke run', () => {
     sd.courses.slice(1).forEach((e, i) => expect(e.difficulty).toBeGreaterThanOrEqual(sd.courses[i].difficulty));
     // The smoke run itself solves nothing: its solved-only export is empty, not an error.
     expect(exportRun(run, join(tmp, 'none'), '--only', 'solved').courses).toBe(0);
+  });
+
+  it('gives every course its crossedAt and rollouts from the state, and lineageRollouts summed up its parent chain', () => {
+    const { state } = openRun(run);
+    const byId = new Map(state.courses.map((c) => [c.id, c]));
+    // Walked here by hand, parent by parent, rather than with cairn's own helper.
+    const chainSum = (id: number): number => {
+      let sum = 0;
+      for (let c = byId.get(id); c; c = c.parent === null ? undefined : byId.get(c.parent)) sum += c.rollouts;
+      return sum;
+    };
+    const entries = byAdmission.courses as unknown as (Entry & { crossedAt: number | null; rollouts: number; lineageRollouts: number; parent: number | null })[];
+    expect(entries.some((e) => e.parent !== null && byId.get(e.parent)!.rollouts > 0), 'no course has a parent with rollouts: the sum could not be told from the course alone').toBe(true);
+    for (const e of entries) {
+      const rec = byId.get(e.id)!;
+      expect([e.crossedAt, e.rollouts]).toEqual([rec.crossedAt, rec.rollouts]);
+      expect(e.lineageRollouts).toBe(chainSum(e.id));
+    }
+    expect(entries.reduce((s, e) => s + e.rollouts, 0)).toBeGreaterThan(0);
+  });
+
+  it('--only crossed keeps the courses crossed or solved, in either order', () => {
+    // The variant has courses 1 and 3 solved (crossedAt unset on them); mark course 2 crossed only.
+    const dir = join(tmp, 'crossed-run');
+    cpSync(variant.dir, dir, { recursive: true });
+    const { inputs, state } = openRun(dir);
+    const courses = state.courses.map((c): CourseRecord => (c.id === 2 ? { ...c, crossedAt: state.iteration } : c));
+    writeCheckpoint(inputs.dir, { ...state, courses }, inputs.recipeHash, inputs.recipe.checkpoint.keep);
+    const want = courses.filter((c) => c.crossedAt !== null || c.solvedAt !== null).map((c) => c.id);
+    expect(want).toEqual([1, 2, 3]);
+    expect(courses.length).toBeGreaterThan(want.length);
+    exportRun(dir, join(tmp, 'v-crossed'), '--only', 'crossed');
+    exportRun(dir, join(tmp, 'v-crossed-d'), '--only', 'crossed', '--order', 'difficulty');
+    const crossed = curriculumIn(join(tmp, 'v-crossed'));
+    expect(crossed.only).toBe('crossed');
+    expect(ids(crossed)).toEqual(want);
+    expect((crossed.courses as unknown as { crossedAt: number | null }[]).map((e) => e.crossedAt)).toEqual([null, state.iteration, null]);
+    expect([...ids(curriculumIn(join(tmp, 'v-crossed-d')))].sort((a, b) => a - b)).toEqual(want);
+    expect(exportRun(run, join(tmp, 'none-crossed'), '--only', 'crossed').courses).toBe(0);
   });
 });
 

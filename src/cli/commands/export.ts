@@ -22,7 +22,7 @@ export function registerExport(program: Command): void {
     .argument('<run-dir>', 'run directory (its newest valid checkpoint is exported)')
     .option('--out <dir>', 'export directory (default <run-dir>/exports/curriculum)')
     .option('--order <order>', 'admission or difficulty', oneOf(['admission', 'difficulty'] as const), 'admission')
-    .option('--only <which>', 'solved or all courses', oneOf(['solved', 'all'] as const), 'all')
+    .option('--only <which>', 'solved, crossed (crossed or solved) or all courses', oneOf(['solved', 'crossed', 'all'] as const), 'all')
     .option('--json', 'print a JSON summary')
     .action(exportAction);
 }

@@ -28,7 +28,7 @@ export const CURRICULUM_SCHEMA: Readonly<Record<string, unknown>> = {
       }
     },
     "order": { "enum": ["admission", "difficulty"] },
-    "only": { "enum": ["solved", "all"] },
+    "only": { "enum": ["solved", "crossed", "all"], "description": "Which courses were kept: solved ones, crossed or solved ones, or all." },
     "difficultyMeasure": { "type": "string" },
     "descriptorNames": { "type": "array", "items": { "type": "string" }, "minItems": 1 },
     "physics": {
@@ -54,6 +54,37 @@ export const CURRICULUM_SCHEMA: Readonly<Record<string, unknown>> = {
       }
     },
     "solveThreshold": { "$ref": "#/$defs/progress" },
+    "training": {
+      "type": "object",
+      "description": "How the run trained and confirmed walkers (absent in exports written before it was recorded).",
+      "required": ["es", "trainingPush", "solve"],
+      "additionalProperties": false,
+      "properties": {
+        "es": {
+          "type": "object",
+          "description": "Evolution strategies settings: candidates per step (even, mirrored), perturbation scale, Adam step size and moments, weight decay.",
+          "required": ["population", "sigma", "learningRate", "beta1", "beta2", "epsilon", "weightDecay"],
+          "additionalProperties": false,
+          "properties": {
+            "population": { "type": "integer", "minimum": 2, "multipleOf": 2 },
+            "sigma": { "type": "number", "exclusiveMinimum": 0 },
+            "learningRate": { "type": "number", "exclusiveMinimum": 0 },
+            "beta1": { "type": "number", "minimum": 0, "exclusiveMaximum": 1 },
+            "beta2": { "type": "number", "minimum": 0, "exclusiveMaximum": 1 },
+            "epsilon": { "type": "number", "exclusiveMinimum": 0 },
+            "weightDecay": { "type": "number", "minimum": 0 }
+          }
+        },
+        "trainingPush": { "type": "number", "minimum": 0, "description": "Largest horizontal push on the torso at the start of ES candidate rollouts, N·s (0 = none)." },
+        "solve": {
+          "type": "object",
+          "description": "Solve confirmation: this many rollouts under the stricter solver (twice the velocity and position iterations), the first unpushed, the rest pushed by up to `push` N·s; all must reach solveThreshold.",
+          "required": ["checks", "push"],
+          "additionalProperties": false,
+          "properties": { "checks": { "type": "integer", "minimum": 0 }, "push": { "type": "number", "minimum": 0 } }
+        }
+      }
+    },
     "body": {
       "type": "object",
       "required": ["file", "name", "actionMode", "observation", "actions"],
@@ -162,7 +193,10 @@ export const CURRICULUM_SCHEMA: Readonly<Record<string, unknown>> = {
           "additionalProperties": false,
           "properties": { "progress": { "$ref": "#/$defs/progress" }, "walker": { "$ref": "#/$defs/walkerRef" } }
         },
+        "crossedAt": { "type": ["integer", "null"], "description": "First iteration some walker reached solveThreshold on it under the run's own solver (null: never). Absent in exports written before it was recorded." },
         "solvedAt": { "type": ["integer", "null"] },
+        "rollouts": { "type": "integer", "minimum": 0, "description": "Rollouts run on this course: its pair's ES steps, solve confirmations, transfers onto it." },
+        "lineageRollouts": { "type": "integer", "minimum": 0, "description": "`rollouts` summed over this course and every ancestor (parent, its parent, ... up to a starting course)." },
         "solvedBy": {
           "oneOf": [
             { "type": "null" },
