@@ -1,6 +1,6 @@
 import { basename, dirname, join } from 'node:path';
 import { mkdirSync } from 'node:fs';
-import type { CourseRecord, IterationMetrics, RunState } from '../coevo/index.js';
+import { gridSpec, liveLineages, type CourseRecord, type IterationMetrics, type LiveLineage, type RunState } from '../coevo/index.js';
 import { UserError } from '../core/index.js';
 import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
@@ -10,12 +10,20 @@ import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
 
 /** What `status` shows: the metrics line's figures plus identity and budget, and the active pairs. */
-export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved'> {
+export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved' | 'hardestCrossed'> {
   /**
    * Difficulty of the hardest solved course, or null while no course beyond the start course is
    * solved (the start course is flat ground, difficulty 0, so 0 would not tell the two apart).
    */
   readonly hardestSolved: number | null;
+  /** Difficulty of the hardest crossed course, null while no course beyond the start course is crossed (as for hardestSolved). */
+  readonly hardestCrossed: number | null;
+  /** The coverage grid: its descriptor components, bins per component, and its number of cells (bins ^ components). */
+  readonly grid: { readonly components: readonly string[]; readonly bins: number; readonly cells: number };
+  /** Lineages with an active pair: id, active courses, dominant feature kind, hardest active difficulty. */
+  readonly liveLineages: readonly LiveLineage[];
+  /** Share of candidate courses refused as too easy, tooEasy / candidates (null before the first candidate). */
+  readonly tooEasyShare: number | null;
   readonly fingerprint: string;
   readonly targetIterations: number;
   readonly skippedCheckpoints: number;
@@ -35,16 +43,24 @@ export interface PairRow {
 
 export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCheckpoint[]): { status: RunStatus; pairs: PairRow[] } {
   const metrics = run.metrics(state);
-  const beyondStart = state.courses.some((c) => c.solvedAt !== null && c.parent !== null);
+  const beyondStart = (at: (c: CourseRecord) => number | null): boolean => state.courses.some((c) => at(c) !== null && c.parent !== null);
+  const { components, bins } = gridSpec(run.inputs.recipe);
+  const diff = (g: CourseRecord['genome']): number => difficulty(g, run.inputs.family);
   const { sources, sourcePaths } = run.inputs;
   const lineage = sources.map((s, i) => ({ courseId: i, path: sourcePaths[i] ?? '?', fingerprint: s.fingerprint, sourceCourseId: s.courseId, clipped: s.clipped }));
   const status = {
-    ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations,
+    ...metrics,
+    hardestSolved: beyondStart((c) => c.solvedAt) ? metrics.hardestSolved : null,
+    hardestCrossed: beyondStart((c) => c.crossedAt) ? metrics.hardestCrossed : null,
+    grid: { components, bins, cells: bins ** components.length },
+    liveLineages: liveLineages(state, diff),
+    tooEasyShare: metrics.candidates > 0 ? metrics.tooEasy / metrics.candidates : null,
+    fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations,
     skippedCheckpoints: skipped.length, live: readLive(run.dir), ...(lineage.length > 0 ? { sources: lineage } : {}),
   };
   const pairs = state.pairs.map((p) => {
     const course = state.courses.find((r) => r.id === p.courseId)!;
-    return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: difficulty(course.genome, run.inputs.family) };
+    return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: diff(course.genome) };
   });
   return { status, pairs };
 }
