@@ -1,10 +1,10 @@
 import { basename, dirname, join } from 'node:path';
-import { mkdirSync } from 'node:fs';
+import { existsSync, mkdirSync } from 'node:fs';
 import { gridSpec, liveLineages, type CourseRecord, type IterationMetrics, type LiveLineage, type RunState } from '../coevo/index.js';
-import { UserError } from '../core/index.js';
+import { readJsonFile, UserError } from '../core/index.js';
 import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
-import { compareHtml, initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
+import { compareHtml, initialCourse, parseBaseline, reportData, reportHtml, strobeSvg, type Baseline } from '../report/index.js';
 import { readLive, wallSeconds, writeFileAtomic, type LiveRecord, type SkippedCheckpoint } from '../store/index.js';
 import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
@@ -65,15 +65,38 @@ export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCh
   return { status, pairs };
 }
 
-/** Replays every course's walker on the backend and writes the report page to `out` (default <run>/report/index.html). */
-export async function writeReport(run: Run, state: RunState, out: string | undefined, backend: Backend): Promise<string> {
+/** The file `cairn baseline` writes into a run directory. */
+export const BASELINE_FILE = 'baseline.json';
+
+/**
+ * The run's baseline.json: null when there is none; when it is unreadable or not valid, null
+ * and a warning that says why (the report is written without it).
+ */
+function readBaseline(dir: string): { baseline: Baseline | null; warning: string | null } {
+  const path = join(dir, BASELINE_FILE);
+  if (!existsSync(path)) return { baseline: null, warning: null };
+  try {
+    return { baseline: parseBaseline(readJsonFile(path, 'Baseline'), path), warning: null };
+  } catch (e) {
+    if (!(e instanceof UserError)) throw e;
+    return { baseline: null, warning: `${e.message}\nThe report leaves the direct baseline out.` };
+  }
+}
+
+/**
+ * Replays every course's walker on the backend and writes the report page to `out` (default
+ * <run>/report/index.html), with the run's direct baseline when it has a valid baseline.json.
+ * Returns the file and warnings (a baseline.json that could not be used).
+ */
+export async function writeReport(run: Run, state: RunState, out: string | undefined, backend: Backend): Promise<{ file: string; warnings: string[] }> {
   const file = out ?? join(run.dir, 'report', 'index.html');
+  const { baseline, warning } = readBaseline(run.dir);
   const evaluator = makeEvaluator(backend);
   try {
-    const data = await reportData(run.ctx, state, run.metricsLog(state.iteration), evaluator);
+    const data = { ...(await reportData(run.ctx, state, run.metricsLog(state.iteration), evaluator)), baseline };
     mkdirSync(dirname(file), { recursive: true });
     writeFileAtomic(file, reportHtml({ ...data, initialCourse: initialCourse(data) }));
-    return file;
+    return { file, warnings: warning ? [warning] : [] };
   } finally {
     await evaluator.close();
   }
