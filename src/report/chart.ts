@@ -27,7 +27,7 @@ export interface ChartSpec {
 
 const PAD = { left: 44, right: 12, top: 40, bottom: 28 };
 
-/** A line chart as an SVG string: axes with round ticks, one polyline per series, a legend. */
+/** A line chart as an SVG string: axes with round ticks, one polyline per series (its values also in `data-values`), a legend. */
 export function lineChart(spec: ChartSpec): string {
   const w = spec.width ?? 360;
   const h = spec.height ?? 210;
@@ -56,7 +56,7 @@ export function lineChart(spec: ChartSpec): string {
     const sx = s.x ?? xs;
     const pts = s.values.map((v, k) => `${n(x(sx[k]))},${n(y(v))}`).join(' ');
     const width = s.width !== undefined ? ` style="stroke-width:${s.width}px"` : '';
-    parts.push(`<polyline class="series" data-series="${esc(s.name)}" fill="none" stroke="${s.colour}"${width} points="${pts}"/>`);
+    parts.push(`<polyline class="series" data-series="${esc(s.name)}" data-values="${s.values.join(',')}" fill="none" stroke="${s.colour}"${width} points="${pts}"/>`);
     // Legend on its own line under the title, so it never sits on the curves.
     parts.push(`<line x1="${lx}" x2="${lx + 14}" y1="27" y2="27" stroke="${s.colour}" stroke-width="2"/>`);
     parts.push(`<text class="legend" x="${lx + 18}" y="31" fill="${s.colour}">${esc(s.name)}</text>`);

@@ -1,7 +1,8 @@
 /**
  * The page's script, as text (it runs in the browser, offline). It reads the embedded data,
- * draws the course map for the chosen descriptor axes, shows a course's geometry and replays
- * its walker with play/pause and a scrubber.
+ * draws the course map for the chosen descriptor axes, opens the course clicked in the lineage
+ * tree or the coverage map, shows a course's geometry and replays its walker with play/pause
+ * and a scrubber.
  */
 export const CLIENT_SCRIPT = String.raw`
 (function () {
@@ -54,8 +55,8 @@ export const CLIENT_SCRIPT = String.raw`
   selY.addEventListener('change', drawMap);
   drawMap();
 
-  // Lineage clicks
-  Array.prototype.forEach.call(document.querySelectorAll('#lineage .node'), function (g) {
+  // Lineage and coverage-map clicks
+  Array.prototype.forEach.call(document.querySelectorAll('#lineage .node, #coverage .cell'), function (g) {
     g.addEventListener('click', function () { selectCourse(+g.getAttribute('data-course')); });
   });
 
@@ -141,7 +142,9 @@ export const CLIENT_SCRIPT = String.raw`
       'parent ' + (current.parent === null ? '—' : current.parent),
       'admitted at iteration ' + current.admittedAt,
       current.status,
+      current.crossedAt !== null ? 'crossed at iteration ' + current.crossedAt : 'not crossed',
       current.solvedAt !== null ? 'solved at iteration ' + current.solvedAt : 'not solved',
+      'lineage ' + current.lineage,
       'difficulty ' + current.difficulty.toFixed(3),
       'features: ' + (current.features.join(', ') || 'none'),
       'best progress ' + current.best.toFixed(3),

@@ -22,7 +22,10 @@ const INK = '#2b2823';
 type Figure = { readonly title: string; readonly get: (m: IterationMetrics) => number; readonly yDomain?: readonly [number, number] };
 const FIGURES: readonly Figure[] = [
   { title: 'courses admitted', get: (m) => m.admitted },
+  { title: 'courses crossed', get: (m) => m.crossed },
   { title: 'courses solved', get: (m) => m.solved },
+  { title: 'new ground', get: (m) => m.newGround },
+  { title: 'coverage (cells holding a solved course)', get: (m) => m.coverage },
   { title: 'best walker progress', get: (m) => m.bestProgress, yDomain: [0, 1] },
   { title: 'median walker progress', get: (m) => m.medianProgress, yDomain: [0, 1] },
   { title: 'hardest solved course (difficulty)', get: (m) => m.hardestSolved },
@@ -47,7 +50,10 @@ type Column = { readonly title: string; readonly get: (m: IterationMetrics) => n
 const COLUMNS: readonly Column[] = [
   { title: 'iteration', get: (m) => m.iteration, digits: 0, median: false },
   { title: 'admitted', get: (m) => m.admitted, digits: 0, median: true },
+  { title: 'crossed', get: (m) => m.crossed, digits: 0, median: true },
   { title: 'solved', get: (m) => m.solved, digits: 0, median: true },
+  { title: 'new ground', get: (m) => m.newGround, digits: 0, median: true },
+  { title: 'coverage', get: (m) => m.coverage, digits: 0, median: true },
   { title: 'takeovers', get: (m) => m.takeovers, digits: 0, median: true },
   { title: 'best progress', get: (m) => m.bestProgress, digits: 3, median: true },
   { title: 'hardest solved', get: (m) => m.hardestSolved, digits: 3, median: true },

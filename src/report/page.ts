@@ -1,12 +1,12 @@
 import { plural } from '../core/index.js';
+import { baselineSection } from './baseline.js';
 import { lineChart } from './chart.js';
 import { CLIENT_SCRIPT } from './client.js';
+import { coverageMap } from './coverage.js';
 import type { ReportData } from './data.js';
-import { esc, n } from './scale.js';
-import { layoutTree } from './tree.js';
-
-/** Palette: warm paper, ink, moss for active, slate for archived, terracotta for solved. */
-const C = { paper: '#f4efe4', ink: '#2b2823', moss: '#5b7f4a', slate: '#8a8f98', clay: '#b2472b', ochre: '#c98a2b', blue: '#2f6f8f' };
+import { lineageLegend, lineageSvg } from './lineage-svg.js';
+import { C } from './palette.js';
+import { esc } from './scale.js';
 
 const STYLE = `
 :root{color-scheme:light}
@@ -22,12 +22,16 @@ h2{font-weight:normal;font-size:20px;border-bottom:1px solid #d8cdb8;padding-bot
 .series{stroke-width:1.8}.chart-title{font-size:12px;fill:${C.ink}}.tick{fill:#6d6354}
 .scroll{overflow-x:auto;background:#fbf8f1;border:1px solid #e2d8c4}
 .edge{stroke:#b5a88f;stroke-width:1.2;fill:none}
-.node circle{stroke:${C.ink};stroke-width:1;cursor:pointer}
-.node.active circle,.map-point.active{fill:${C.moss}}
-.node.archived circle,.map-point.archived{fill:${C.slate}}
-.node.solved circle,.map-point.solved{fill:${C.clay}}
+.node .mark{stroke:${C.ink};stroke-width:1;cursor:pointer}
+.node.archived .mark{fill-opacity:.45;stroke-dasharray:3 2}.node.archived text{fill:${C.ink}}
+.map-point.active{fill:${C.moss}}.map-point.archived{fill:${C.slate}}.map-point.solved{fill:${C.clay}}
 .node text{font:10px ui-monospace,monospace;fill:${C.paper};pointer-events:none}
-.node.selected circle,.map-point.selected{stroke:${C.ochre};stroke-width:3}
+.node.selected .mark,.map-point.selected,.cell.selected{stroke:${C.ochre};stroke-width:3}
+.icon{vertical-align:middle;margin:0 2px 0 10px}.lineage-key{white-space:nowrap;margin-right:12px}.lineage-key i{display:inline-block;width:10px;height:10px;border-radius:50%;margin:0 4px;vertical-align:middle}
+.map-area{fill:#fbf8f1}.cell{stroke:${C.ink};stroke-width:.4;cursor:pointer}.swatch{stroke:${C.ink};stroke-width:.4}.swatch.empty{fill:#fbf8f1}
+.cell-line{stroke:#e6dccb;stroke-width:.5}.block-line{stroke:#8b7f6b;stroke-width:1.2}
+#coverage-svg{background:#fbf8f1;border:1px solid #e2d8c4}
+table{border-collapse:collapse;font-family:ui-monospace,'DejaVu Sans Mono',monospace;font-size:12px}td,th{padding:3px 10px;text-align:right;border-bottom:1px solid #e2d8c4}
 .map-point{stroke:${C.ink};stroke-width:.8;cursor:pointer;opacity:.9}
 .key span{display:inline-block;width:10px;height:10px;border-radius:50%;margin:0 4px 0 14px;vertical-align:middle}
 #map-svg,#course-svg{background:#fbf8f1;border:1px solid #e2d8c4;display:block}
@@ -47,46 +51,40 @@ function curves(d: ReportData): string {
   return [
     lineChart({ title: 'active pairs', x, series: [s('active', C.moss, (m) => m.activePairs)] }),
     lineChart({ title: 'courses admitted and solved', x, series: [s('admitted', C.blue, (m) => m.admitted), s('solved', C.clay, (m) => m.solved)] }),
+    lineChart({ title: 'courses crossed and solved', x, series: [s('crossed', C.ochre, (m) => m.crossed), s('solved', C.clay, (m) => m.solved)] }),
+    lineChart({ title: 'new ground', x, series: [s('new ground', C.teal, (m) => m.newGround)] }),
+    lineChart({ title: `coverage (cells of ${d.grid.cells.toLocaleString('en-US')})`, x, series: [s('coverage', C.plum, (m) => m.coverage)] }),
     lineChart({ title: 'walker progress', x, yDomain: [0, 1], series: [s('best', C.clay, (m) => m.bestProgress), s('median', C.blue, (m) => m.medianProgress)] }),
     lineChart({ title: 'takeovers by transfer (total)', x, series: [s('takeovers', C.ochre, (m) => m.takeovers)] }),
-    lineChart({ title: 'hardest solved course (difficulty)', x, series: [s('difficulty', C.ink, (m) => m.hardestSolved)] }),
+    lineChart({ title: 'hardest course (difficulty)', x, series: [s('crossed', C.ochre, (m) => m.hardestCrossed), s('solved', C.ink, (m) => m.hardestSolved)] }),
   ].join('');
 }
 
-function lineage(d: ReportData): string {
-  const placed = layoutTree(d.courses);
-  const at = new Map(placed.map((p) => [p.id, p]));
-  const w = Math.max(200, ...placed.map((p) => p.x + 20));
-  const h = Math.max(80, ...placed.map((p) => p.y + 24));
-  const edges = placed.filter((p) => p.parent !== null && at.has(p.parent)).map((p) => {
-    const q = at.get(p.parent!)!;
-    return `<path class="edge" d="M${n(q.x)},${n(q.y)} C${n(q.x)},${n((q.y + p.y) / 2)} ${n(p.x)},${n((q.y + p.y) / 2)} ${n(p.x)},${n(p.y)}"/>`;
-  });
-  const byId = new Map(d.courses.map((c) => [c.id, c]));
-  const nodes = placed.map((p) => {
-    const c = byId.get(p.id)!;
-    const cls = c.solvedAt !== null ? 'solved' : c.status;
-    const from = c.source ? `, branched from course ${c.source.courseId} of run ${c.source.fingerprint.slice(0, 12)}` : '';
-    const tip = `course ${c.id}, admitted at ${c.admittedAt}${c.solvedAt !== null ? `, solved at ${c.solvedAt}` : ', not solved'}${from}`;
-    return `<g class="node ${cls}" data-course="${c.id}" transform="translate(${n(p.x)} ${n(p.y)})"><title>${esc(tip)}</title><circle r="11"/><text text-anchor="middle" y="3.5">${c.id}</text></g>`;
-  });
-  return `<svg id="lineage-svg" viewBox="0 0 ${n(w)} ${n(h)}" width="${n(w)}" height="${n(h)}">${edges.join('')}${nodes.join('')}</svg>`;
+function coverageSection(d: ReportData): string {
+  const g = d.grid;
+  return `<section id="coverage"><h2>Coverage</h2>
+<p id="coverage-summary" class="facts">${g.covered.length} of ${g.cells.toLocaleString('en-US')} cells hold a solved course (components ${esc(g.components.join(', '))}, each normalised to 0–1 in ${g.bins} bins).</p>
+<p>Components at odd places in that list run across, those at even places up; along each axis the first picks the block and the next the cell inside it. A cell is coloured by the hardest solved course in it (click it to open that course); blank cells hold none.</p>
+<div class="scroll">${coverageMap(g)}</div></section>`;
 }
 
 /** The whole report as one self-contained HTML page (inline style, SVG and script; no network). */
 export function reportHtml(d: ReportData & { initialCourse: number }): string {
   const solved = d.courses.filter((c) => c.solvedAt !== null).length;
+  const crossed = d.courses.filter((c) => c.crossedAt !== null).length;
   const last = d.metrics[d.metrics.length - 1];
   const json = JSON.stringify(d).replace(/</g, '\\u003c');
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
 <title>cairn report: ${esc(d.run.name)}</title><style>${STYLE}</style></head><body>
 <header><h1>${esc(d.run.name)}</h1>
-<p class="facts"><span>iteration ${d.run.iteration} of ${d.run.target}</span><span>seed ${d.run.seed}</span><span>${plural(d.courses.filter((c) => c.parent !== null).length, 'course')} admitted</span><span>${solved} solved</span><span>${plural(last ? last.takeovers : 0, 'takeover')}</span></p>
+<p class="facts" id="run-facts"><span>iteration ${d.run.iteration} of ${d.run.target}</span><span>seed ${d.run.seed}</span><span>${plural(d.courses.filter((c) => c.parent !== null).length, 'course')} admitted</span><span>${crossed} crossed</span><span>${solved} solved</span><span>new ground ${last ? last.newGround : 0}</span><span>coverage ${d.grid.covered.length} of ${d.grid.cells} cells</span><span>${plural(last ? last.takeovers : 0, 'takeover')}</span></p>
 <p class="facts fp">fingerprint ${esc(d.run.fingerprint)}</p>
-<p class="key facts">status<span style="background:${C.moss}"></span>active<span style="background:${C.slate}"></span>archived<span style="background:${C.clay}"></span>solved</p></header>
+<p class="key facts">course map<span style="background:${C.moss}"></span>active<span style="background:${C.slate}"></span>archived<span style="background:${C.clay}"></span>solved</p></header>
 <section id="curves"><h2>The population over time</h2><div class="charts">${curves(d)}</div></section>
-<section id="lineage"><h2>Lineage of courses</h2><p>Each course hangs under the course it was mutated from. Click one to see it below.</p><div class="scroll">${lineage(d)}</div></section>
+<section id="lineage"><h2>Lineage of courses</h2><p>Each course hangs under the course it was mutated from. Click one to see it below.</p>${lineageLegend(d)}<div class="scroll">${lineageSvg(d)}</div></section>
+${coverageSection(d)}
+${d.baseline ? baselineSection(d.baseline) : ''}
 <section id="map"><h2>Course map</h2><p>Courses placed by two descriptor components: how much of the terrain space the run has covered.</p>
 <p class="facts"><label>x <select id="map-x"></select></label> <label>y <select id="map-y"></select></label></p>
 <svg id="map-svg" viewBox="0 0 520 340" width="520" height="340"></svg></section>

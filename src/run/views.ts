@@ -1,21 +1,29 @@
 import { basename, dirname, join } from 'node:path';
-import { mkdirSync } from 'node:fs';
-import type { CourseRecord, IterationMetrics, RunState } from '../coevo/index.js';
-import { UserError } from '../core/index.js';
+import { existsSync, mkdirSync } from 'node:fs';
+import { gridSpec, liveLineages, type CourseRecord, type IterationMetrics, type LiveLineage, type RunState } from '../coevo/index.js';
+import { readJsonFile, UserError } from '../core/index.js';
 import { loadAnyWalker, writeExport, type ExportResult, type Only, type Order } from '../export/index.js';
 import { makeEvaluator, sceneBatch, threads, type Backend } from '../pool/index.js';
-import { compareHtml, initialCourse, reportData, reportHtml, strobeSvg } from '../report/index.js';
+import { compareHtml, initialCourse, parseBaseline, reportData, reportHtml, strobeSvg, type Baseline } from '../report/index.js';
 import { readLive, wallSeconds, writeFileAtomic, type LiveRecord, type SkippedCheckpoint } from '../store/index.js';
 import { buildCourse, difficulty } from '../terrain/index.js';
 import type { Run } from './run.js';
 
 /** What `status` shows: the metrics line's figures plus identity and budget, and the active pairs. */
-export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved'> {
+export interface RunStatus extends Omit<IterationMetrics, 'hardestSolved' | 'hardestCrossed'> {
   /**
    * Difficulty of the hardest solved course, or null while no course beyond the start course is
    * solved (the start course is flat ground, difficulty 0, so 0 would not tell the two apart).
    */
   readonly hardestSolved: number | null;
+  /** Difficulty of the hardest crossed course, null while no course beyond the start course is crossed (as for hardestSolved). */
+  readonly hardestCrossed: number | null;
+  /** The coverage grid: its descriptor components, bins per component, and its number of cells (bins ^ components). */
+  readonly grid: { readonly components: readonly string[]; readonly bins: number; readonly cells: number };
+  /** Lineages with an active pair: id, active courses, dominant feature kind, hardest active difficulty. */
+  readonly liveLineages: readonly LiveLineage[];
+  /** Share of candidate courses refused as too easy, tooEasy / candidates (null before the first candidate). */
+  readonly tooEasyShare: number | null;
   readonly fingerprint: string;
   readonly targetIterations: number;
   readonly skippedCheckpoints: number;
@@ -35,29 +43,60 @@ export interface PairRow {
 
 export function runStatus(run: Run, state: RunState, skipped: readonly SkippedCheckpoint[]): { status: RunStatus; pairs: PairRow[] } {
   const metrics = run.metrics(state);
-  const beyondStart = state.courses.some((c) => c.solvedAt !== null && c.parent !== null);
+  const beyondStart = (at: (c: CourseRecord) => number | null): boolean => state.courses.some((c) => at(c) !== null && c.parent !== null);
+  const { components, bins } = gridSpec(run.inputs.recipe);
+  const diff = (g: CourseRecord['genome']): number => difficulty(g, run.inputs.family);
   const { sources, sourcePaths } = run.inputs;
   const lineage = sources.map((s, i) => ({ courseId: i, path: sourcePaths[i] ?? '?', fingerprint: s.fingerprint, sourceCourseId: s.courseId, clipped: s.clipped }));
   const status = {
-    ...metrics, hardestSolved: beyondStart ? metrics.hardestSolved : null, fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations,
+    ...metrics,
+    hardestSolved: beyondStart((c) => c.solvedAt) ? metrics.hardestSolved : null,
+    hardestCrossed: beyondStart((c) => c.crossedAt) ? metrics.hardestCrossed : null,
+    grid: { components, bins, cells: bins ** components.length },
+    liveLineages: liveLineages(state, diff),
+    tooEasyShare: metrics.candidates > 0 ? metrics.tooEasy / metrics.candidates : null,
+    fingerprint: run.fingerprint(state), targetIterations: run.inputs.recipe.budget.iterations,
     skippedCheckpoints: skipped.length, live: readLive(run.dir), ...(lineage.length > 0 ? { sources: lineage } : {}),
   };
   const pairs = state.pairs.map((p) => {
     const course = state.courses.find((r) => r.id === p.courseId)!;
-    return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: difficulty(course.genome, run.inputs.family) };
+    return { course, walkerId: p.walkerId, progress: p.progress, age: state.iteration - course.admittedAt, difficulty: diff(course.genome) };
   });
   return { status, pairs };
 }
 
-/** Replays every course's walker on the backend and writes the report page to `out` (default <run>/report/index.html). */
-export async function writeReport(run: Run, state: RunState, out: string | undefined, backend: Backend): Promise<string> {
+/** The file `cairn baseline` writes into a run directory. */
+export const BASELINE_FILE = 'baseline.json';
+
+/**
+ * The run's baseline.json: null when there is none; when it is unreadable or not valid, null
+ * and a warning that says why (the report is written without it).
+ */
+function readBaseline(dir: string): { baseline: Baseline | null; warning: string | null } {
+  const path = join(dir, BASELINE_FILE);
+  if (!existsSync(path)) return { baseline: null, warning: null };
+  try {
+    return { baseline: parseBaseline(readJsonFile(path, 'Baseline'), path), warning: null };
+  } catch (e) {
+    if (!(e instanceof UserError)) throw e;
+    return { baseline: null, warning: `${e.message}\nThe report leaves the direct baseline out.` };
+  }
+}
+
+/**
+ * Replays every course's walker on the backend and writes the report page to `out` (default
+ * <run>/report/index.html), with the run's direct baseline when it has a valid baseline.json.
+ * Returns the file and warnings (a baseline.json that could not be used).
+ */
+export async function writeReport(run: Run, state: RunState, out: string | undefined, backend: Backend): Promise<{ file: string; warnings: string[] }> {
   const file = out ?? join(run.dir, 'report', 'index.html');
+  const { baseline, warning } = readBaseline(run.dir);
   const evaluator = makeEvaluator(backend);
   try {
-    const data = await reportData(run.ctx, state, run.metricsLog(state.iteration), evaluator);
+    const data = { ...(await reportData(run.ctx, state, run.metricsLog(state.iteration), evaluator)), baseline };
     mkdirSync(dirname(file), { recursive: true });
     writeFileAtomic(file, reportHtml({ ...data, initialCourse: initialCourse(data) }));
-    return file;
+    return { file, warnings: warning ? [warning] : [] };
   } finally {
     await evaluator.close();
   }

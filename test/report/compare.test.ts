@@ -7,17 +7,16 @@
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { pathToFileURL } from 'node:url';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { median } from '../../src/core/index.js';
-import { cairn, ensureBuilt, launchChromium, ROOT, watchPage, xmlProblems, type PageWatch } from './helpers.js';
+import { cairn, ensureBuilt, openPage, ROOT, xmlProblems, type PageWatch } from './helpers.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'cairn-compare-'));
 const base = join(tmp, 'smoke');
 const runs = [1, 2, 3].map((s) => `${base}-s${s}`);
 const html = join(tmp, 'compare.html');
-interface Status { iteration: number; admitted: number; solved: number; fingerprint: string }
+interface Status { iteration: number; admitted: number; crossed: number; solved: number; newGround: number; coverage: number; fingerprint: string }
 let statuses: Status[] = [];
 const SMOKE = join(ROOT, 'runs/smoke.json');
 
@@ -60,10 +59,7 @@ describe('the comparison page in chromium', () => {
   let watch: PageWatch;
 
   beforeAll(async () => {
-    browser = await launchChromium();
-    page = await browser.newPage({ viewport: { width: 1200, height: 900 } });
-    watch = await watchPage(page);
-    await page.goto(pathToFileURL(html).href, { waitUntil: 'load' });
+    ({ browser, page, watch } = await openPage(html));
   }, 60_000);
   afterAll(async () => { await browser?.close(); });
 
@@ -80,7 +76,7 @@ describe('the comparison page in chromium', () => {
       lines: Array.from(svg.querySelectorAll('polyline.series')).map((p) => ({ name: p.getAttribute('data-series'), points: p.getAttribute('points')!.trim().split(/\s+/).length, width: (p as SVGPolylineElement).getBoundingClientRect().width })),
       bands: svg.querySelectorAll('polygon.band').length,
     })));
-    expect(charts.length).toBeGreaterThanOrEqual(5);
+    expect(charts.map((c) => c.title)).toEqual(expect.arrayContaining(['courses crossed', 'new ground', 'coverage (cells holding a solved course)']));
     for (const c of charts) {
       expect(c.lines.map((l) => l.name)).toEqual(['smoke-s1', 'smoke-s2', 'smoke-s3', 'median']);
       // metrics.jsonl has one line per iteration from 1 to the run's last.
@@ -91,6 +87,18 @@ describe('the comparison page in chromium', () => {
     }
   });
 
+  it('plots each run\'s crossed, new ground and coverage figures from its metrics log', async () => {
+    const values = await page.$$eval('svg.chart', (els) => Object.fromEntries(els.map((svg) => [svg.getAttribute('aria-label'),
+      Object.fromEntries(Array.from(svg.querySelectorAll('polyline.series'), (p) => [p.getAttribute('data-series'), p.getAttribute('data-values')!.split(',').map(Number)]))])));
+    runs.forEach((dir, k) => {
+      const log = readFileSync(join(dir, 'metrics.jsonl'), 'utf8').trim().split('\n').map((l) => JSON.parse(l) as Status);
+      expect(values['courses crossed'][`smoke-s${k + 1}`]).toEqual(log.map((m) => m.crossed));
+      expect(values['new ground'][`smoke-s${k + 1}`]).toEqual(log.map((m) => m.newGround));
+      expect(values['coverage (cells holding a solved course)'][`smoke-s${k + 1}`]).toEqual(log.map((m) => m.coverage));
+      expect(log.at(-1)!.crossed).toBe(statuses[k].crossed);
+    });
+  });
+
   it('tabulates each run\'s final figures as its status gives them, and their median', async () => {
     const rows = await page.$$eval('#finals tr', (trs) => trs.map((tr) => Array.from(tr.querySelectorAll('td,th')).map((c) => c.textContent ?? '')));
     const head = rows[0];
@@ -99,7 +107,10 @@ describe('the comparison page in chromium', () => {
     rows.slice(1, 4).forEach((r, k) => {
       expect(Number(r[col('iteration')])).toBe(statuses[k].iteration);
       expect(Number(r[col('admitted')])).toBe(statuses[k].admitted);
+      expect(Number(r[col('crossed')])).toBe(statuses[k].crossed);
       expect(Number(r[col('solved')])).toBe(statuses[k].solved);
+      expect(Number(r[col('new ground')])).toBe(statuses[k].newGround);
+      expect(Number(r[col('coverage')])).toBe(statuses[k].coverage);
       expect(r[col('fingerprint')]).toBe(`${statuses[k].fingerprint.slice(0, 16)}…`);
       // Wall time: every invocation's seconds from sessions.jsonl (s1 was run twice: the sweep, then to 5).
       const sessions = readFileSync(join(runs[k], 'sessions.jsonl'), 'utf8').trim().split('\n').map((l) => JSON.parse(l) as { seconds: number; from: number; to: number });

@@ -5,6 +5,7 @@
  */
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { inflateSync } from 'node:zlib';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { ROOT } from '../pool/helpers.js';
@@ -172,4 +173,13 @@ export async function watchPage(page: Page): Promise<PageWatch> {
     return route.abort();
   });
   return w;
+}
+
+/** A headless chromium with one watched page (1200 × 900) open at a local file. */
+export async function openPage(file: string): Promise<{ browser: Browser; page: Page; watch: PageWatch }> {
+  const browser = await launchChromium();
+  const page = await browser.newPage({ viewport: { width: 1200, height: 900 } });
+  const watch = await watchPage(page);
+  await page.goto(pathToFileURL(file).href, { waitUntil: 'load' });
+  return { browser, page, watch };
 }

@@ -13,7 +13,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { ReportData } from '../../src/report/index.js';
 import { openRun, type OpenedRun } from '../../src/store/index.js';
-import { cairn, colourStats, decodePng, ensureBuilt, launchChromium, ROOT, watchPage, xmlProblems, type PageWatch } from './helpers.js';
+import { cairn, colourStats, decodePng, ensureBuilt, openPage, ROOT, watchPage, xmlProblems, type PageWatch } from './helpers.js';
 
 const tmp = mkdtempSync(join(tmpdir(), 'cairn-report-'));
 const runDir = join(tmp, 'run');
@@ -76,10 +76,7 @@ describe('the report in chromium', () => {
   const nodeOf = (id: number) => page.locator(`#lineage .node[data-course="${id}"]`);
 
   beforeAll(async () => {
-    browser = await launchChromium();
-    page = await browser.newPage({ viewport: { width: 1200, height: 900 } });
-    watch = await watchPage(page);
-    await page.goto(pathToFileURL(htmlFile).href, { waitUntil: 'load' });
+    ({ browser, page, watch } = await openPage(htmlFile));
   }, 60_000);
   afterAll(async () => { await browser?.close(); });
 
@@ -99,8 +96,8 @@ describe('the report in chromium', () => {
     expect(watch.errors).toEqual([]);
   });
 
-  it('draws five charts with a point per logged iteration', async () => {
-    expect(await page.locator('#curves svg.chart').count()).toBe(5);
+  it('draws eight charts with a point per logged iteration', async () => {
+    expect(await page.locator('#curves svg.chart').count()).toBe(8);
     const counts = await page.locator('#curves svg.chart').evaluateAll((svgs) =>
       svgs.map((s) => Array.from(s.querySelectorAll('polyline'), (p) => p.points.numberOfItems)));
     for (const c of counts) {

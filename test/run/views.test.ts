@@ -64,7 +64,7 @@ describe('counts in words', () => {
   it('says "1 active pair", "1 course" and "1 walker" for a run at iteration 0', async () => {
     const fresh = makeRun(root, {}, 'fresh');
     const text = (await cliOk(['status', fresh.inputs.dir])).stdout;
-    expect(text).toContain('iteration 0 of 6; 1 active pair; 0 courses admitted; 0 archived; 0 solved; 0 takeovers\n');
+    expect(text).toContain('iteration 0 of 6; 1 active pair; 0 courses admitted; 0 archived; 0 crossed; 0 solved; 0 takeovers\n');
     const exported = (await cliOk(['export', fresh.inputs.dir, '--out', join(root, 'fresh-export')])).stdout;
     expect(exported).toBe(`exported 1 course and 1 walker (iteration 0) to ${join(root, 'fresh-export')}\n`);
   });

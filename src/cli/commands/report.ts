@@ -15,8 +15,9 @@ async function reportAction(dirs: string[], o: ReportOptions): Promise<void> {
   const run = Run.open(dirs[0]);
   const { state } = run.latest();
   if (!o.quiet) process.stderr.write(`replaying ${plural(state.courses.length, 'course')}...\n`);
-  const out = await writeReport(run, state, o.out, backendOf(o));
-  process.stdout.write(`report of iteration ${state.iteration} written to ${out}\n`);
+  const { file, warnings } = await writeReport(run, state, o.out, backendOf(o));
+  for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
+  process.stdout.write(`report of iteration ${state.iteration} written to ${file}\n`);
 }
 
 interface RenderOptions { course: number; walker?: string; out: string; every: number }

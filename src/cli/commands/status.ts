@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import { Run, runStatus } from '../../run/index.js';
+import { Run, runStatus, type RunStatus } from '../../run/index.js';
 import type { LiveRecord } from '../../store/index.js';
 import { DESCRIPTOR_NAMES } from '../../terrain/index.js';
 import { plural } from '../../core/index.js';
@@ -20,6 +20,20 @@ function liveLine(l: LiveRecord | null): string {
   return `running (pid ${l.pid}) on ${l.backend}: ${now} (as of ${l.updated})`;
 }
 
+const hardest = (d: number | null): string => (d === null ? 'none' : `difficulty ${d.toFixed(3)}`);
+
+/** The run's measures in words: crossed, new ground, coverage, lineages alive, wasted candidates. */
+function measureLines(s: RunStatus): string[] {
+  const lineages = s.liveLineages.map((l) => `${l.id} ${l.kind} (${plural(l.active.length, 'active course')}, hardest ${l.hardestActive.toFixed(3)})`);
+  const share = s.tooEasyShare === null ? '' : ` (${(100 * s.tooEasyShare).toFixed(1)}% wasted)`;
+  return [
+    `hardest crossed course: ${hardest(s.hardestCrossed)}`,
+    `new ground ${s.newGround}; coverage ${s.coverage} of ${s.grid.cells} cells (${s.grid.components.join(', ')}; ${s.grid.bins} bins each)`,
+    `${plural(s.liveLineages.length, 'lineage')} alive${lineages.length > 0 ? ` (by first course): ${lineages.join('; ')}` : ''}`,
+    `${plural(s.candidates, 'candidate')}, ${s.tooEasy} refused as too easy${share}`,
+  ];
+}
+
 function statusAction(dir: string, o: StatusOptions): void {
   const run = Run.open(dir);
   const { state, skipped } = run.latest();
@@ -30,8 +44,9 @@ function statusAction(dir: string, o: StatusOptions): void {
   }
   const lines = [
     `run ${run.dir}`,
-    `iteration ${state.iteration} of ${s.targetIterations}; ${plural(s.activePairs, 'active pair')}; ${plural(s.admitted, 'course')} admitted; ${s.archived} archived; ${s.solved} solved; ${plural(s.takeovers, 'takeover')}`,
-    `hardest solved course: ${s.hardestSolved === null ? 'none' : `difficulty ${s.hardestSolved.toFixed(3)}`}; rollouts ${s.rollouts.toLocaleString('en-US')}`,
+    `iteration ${state.iteration} of ${s.targetIterations}; ${plural(s.activePairs, 'active pair')}; ${plural(s.admitted, 'course')} admitted; ${s.archived} archived; ${s.crossed} crossed; ${s.solved} solved; ${plural(s.takeovers, 'takeover')}`,
+    `hardest solved course: ${hardest(s.hardestSolved)}; rollouts ${s.rollouts.toLocaleString('en-US')}`,
+    ...measureLines(s),
     `fingerprint ${s.fingerprint}`,
     liveLine(s.live),
     '',
