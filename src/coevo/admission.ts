@@ -182,32 +182,57 @@ function admit(ctx: RunContext, draft: Draft, c: Candidate): void {
 }
 
 /**
- * Which pair retires first when there are too many: solved pairs (earliest solved first), then
- * pairs neither solved nor protected (oldest first), then protected ones (crossed but not yet
- * confirmed, within `solve.patience` iterations of crossing; earliest crossed first). Protected
- * pairs keep training toward a confirmed solve instead of retiring unconfirmed.
+ * The pair to retire next. Protected pairs (crossed but not yet confirmed, within
+ * `solve.patience` iterations of crossing) go last, so they keep training toward a confirmed
+ * solve; before them, pairs admitted in this very round (oldest first). Among the rest, a pair whose lineage has another active pair goes before the last pair
+ * of a lineage, so lineages are not lost while others have pairs to spare; then solved pairs
+ * (earliest solved first) before unsolved ones (oldest first). Protected pairs among themselves:
+ * earliest crossed first.
  */
-export function retirementOrder(ctx: RunContext, draft: Draft): PairState[] {
+export function nextToRetire(ctx: RunContext, draft: Draft): PairState {
   const patience = ctx.recipe.solve.patience;
-  const rank = (p: PairState, i: number): [number, number, number] => {
+  const of = lineages(draft.courses);
+  const perLineage = new Map<number, number>();
+  for (const p of draft.pairs) perLineage.set(of.get(p.courseId)!, (perLineage.get(of.get(p.courseId)!) ?? 0) + 1);
+  const rank = (p: PairState, i: number): number[] => {
     const c = draft.course(p.courseId);
-    if (c.solvedAt !== null) return [0, c.solvedAt, i];
-    if (c.crossedAt !== null && draft.iteration - c.crossedAt < patience) return [2, c.crossedAt, i];
-    return [1, 0, i];
+    if (c.solvedAt === null && c.crossedAt !== null && draft.iteration - c.crossedAt < patience) return [2, 0, 0, c.crossedAt, i];
+    if (c.admittedAt === draft.iteration && c.parent !== null) return [1, 0, 0, 0, i];
+    const last = perLineage.get(of.get(p.courseId)!) === 1 ? 1 : 0;
+    return c.solvedAt !== null ? [0, last, 0, c.solvedAt, i] : [0, last, 1, 0, i];
   };
-  const ranked = draft.pairs.map((p, i) => ({ p, r: rank(p, i) }));
-  ranked.sort((a, b) => a.r[0] - b.r[0] || a.r[1] - b.r[1] || a.r[2] - b.r[2]);
-  return ranked.map(({ p }) => p);
+  let best = 0;
+  let bestRank = rank(draft.pairs[0], 0);
+  draft.pairs.forEach((p, i) => {
+    const r = rank(p, i);
+    const cmp = r.findIndex((v, k) => v !== bestRank[k]);
+    if (cmp >= 0 && r[cmp] < bestRank[cmp]) [best, bestRank] = [i, r];
+  });
+  return draft.pairs[best];
 }
 
-/** Retires pairs to the archive, in retirement order, while there are more than maxActive. */
+/** The order in which pairs would retire if all had to go, one at a time (see nextToRetire). */
+export function retirementOrder(ctx: RunContext, draft: Draft): PairState[] {
+  const saved = draft.pairs;
+  const out: PairState[] = [];
+  try {
+    while (draft.pairs.length > 0) {
+      const p = nextToRetire(ctx, draft);
+      out.push(p);
+      draft.pairs = draft.pairs.filter((q) => q !== p);
+    }
+  } finally {
+    draft.pairs = saved;
+  }
+  return out;
+}
+
+/** Retires pairs to the archive, one at a time in the order of nextToRetire, while there are more than maxActive. */
 function retireOverCap(ctx: RunContext, draft: Draft): void {
-  const over = draft.pairs.length - ctx.recipe.population.maxActive;
-  if (over <= 0) return;
-  const leaving = new Set(retirementOrder(ctx, draft).slice(0, over));
-  for (const old of draft.pairs.filter((p) => leaving.has(p))) {
+  while (draft.pairs.length > ctx.recipe.population.maxActive) {
+    const old = nextToRetire(ctx, draft);
+    draft.pairs = draft.pairs.filter((p) => p !== old);
     draft.setCourse({ ...draft.course(old.courseId), archivedAt: draft.iteration });
     draft.events.push({ type: 'retired', iteration: draft.iteration, courseId: old.courseId, walkerId: old.walkerId, progress: old.progress });
   }
-  draft.pairs = draft.pairs.filter((p) => !leaving.has(p));
 }

@@ -6,7 +6,8 @@ import type { Draft } from './draft.js';
 import { finishEsStep } from './es-batch.js';
 
 /**
- * Phase 1: every active pair takes one ES step on its own course, all in one batch; candidates
+ * Phase 1: every active pair takes one ES step on its own course, all in one batch (under the
+ * stricter solver once a confirmation on the course has been tried); candidates
  * run with the iteration's random push (recipe `episode.trainingPush`), the mean without. Each pair's
  * recorded progress becomes its mean's progress (before the update), and course bests follow.
  */
@@ -17,7 +18,10 @@ export async function esPhase(ctx: RunContext, draft: Draft, evaluator: Evaluato
     // One push per pair and iteration, shared by all its candidates (common random numbers), so
     // mirrored candidates are compared under the same disturbance while walkers learn to bear it.
     const push = maxPush > 0 ? stream(ctx.recipe.seed, `iteration/${draft.iteration}/course/${p.courseId}/push`).uniform(-maxPush, maxPush) : 0;
-    return b.esStep(p.es, b.course(p.courseId), b.episode('run', push), b.episode('run'));
+    // A course whose crossing failed a confirmation is trained under the stricter solver from
+    // then on, so its walker grows robust instead of exploiting the run's own solver.
+    const solver = draft.course(p.courseId).confirmTries > 0 ? 'strict' : 'run';
+    return b.esStep(p.es, b.course(p.courseId), b.episode(solver, push), b.episode(solver));
   });
   const results = await b.run(evaluator, draft);
   draft.pairs = draft.pairs.map((p, i) => {

@@ -191,14 +191,15 @@ describe('candidate outcome records', () => {
   });
 
   it('admits a candidate whose novelty equals minNovelty and refuses the less novel', async () => {
-    const probe = planned({});
+    // k no larger than the run's 3 courses, so admitting one can only lower the others' novelty.
+    const probe = planned({}, { novelty: { k: 3 } });
     const { liveIndex } = await runPlanned(probe);
     const refs0 = probe.state.courses.map((c) => point(probe, c.genome));
     const inBand = probe.genomes.map((g, i) => i).filter((i) => !probe.duplicate[i] && liveIndex[i] >= 2);
     const n0 = inBand.map((i) => knnNovelty(point(probe, probe.genomes[i]), refs0, probe.ctx.recipe.novelty.k));
     const best = Math.max(...n0);
     expect(n0.filter((n) => n === best)).toHaveLength(1);
-    const p = planned({ admitPerRound: 8, minNovelty: best });
+    const p = planned({ admitPerRound: 8, minNovelty: best }, { novelty: { k: 3 } });
     const { events } = await runPlanned(p);
     inBand.forEach((i, j) => expect(events[i].outcome).toBe(n0[j] === best ? 'admitted' : 'not-novel'));
   });

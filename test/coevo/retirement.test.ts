@@ -29,14 +29,17 @@ async function overCapacity() {
 }
 
 describe('retirement beyond maxActive', () => {
-  it('retires the oldest pairs, oldest first, and keeps the newly admitted ones', async () => {
+  it('retires the pairs that were there before, a lineage\'s last pair after the others, and keeps the newly admitted ones', async () => {
     const { start, out } = await overCapacity();
     const admitted = out.events.flatMap((e) => (e.type === 'candidate' && e.outcome === 'admitted' ? [e.courseId] : []));
     expect(admitted).toEqual([2, 3]);
     const retired = out.events.filter((e) => e.type === 'retired');
+    // Course 0 is alone in its lineage; course 1 shares lineage 1 with the new courses 2 and 3
+    // (children of 1), so course 1 goes first, then course 0.
+    expect(out.state.courses.filter((c) => c.id >= 2).map((c) => c.parent)).toEqual([1, 1]);
     expect(retired).toEqual([
-      { type: 'retired', iteration: 1, courseId: 0, walkerId: 0, progress: OWN },
       { type: 'retired', iteration: 1, courseId: 1, walkerId: 1, progress: OWN },
+      { type: 'retired', iteration: 1, courseId: 0, walkerId: 0, progress: OWN },
     ]);
     expect(out.state.pairs.map((p) => p.courseId)).toEqual([2, 3]);
     expect(out.metrics).toMatchObject({ activePairs: 2, admitted: 3, archived: 2 });

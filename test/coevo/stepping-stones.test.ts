@@ -45,18 +45,35 @@ describe('crossed and solved', () => {
   it('retries a failed confirmation every solve.retryEvery iterations, and solves when a retry passes', async () => {
     const ctx = solveSetup();
     let state = stateWith(ctx, [{ tag: 1, progress: 0 }, { tag: 2, progress: 0 }]);
-    // Checks fail until iteration 7, then pass.
+    // Walker 0 makes 0.95 everywhere except in pushed strict rollouts (the second check), which
+    // fall short until iteration 7.
     let iteration = 0;
-    const fake = new FakeEvaluator(ctx, (r) => (r.strict ? (iteration >= 7 ? 1 : 0.2) : r.tag === 1 ? 0.95 : 0.5));
+    const fake = new FakeEvaluator(ctx, (r) => (r.tag !== 1 ? 0.5 : r.strict && r.push !== 0 && iteration < 7 ? 0.2 : 0.95));
     const tried: number[] = [];
     for (iteration = 1; iteration <= 9; iteration++) {
-      const before = fake.all().filter((r) => r.strict).length;
-      state = (await step(state, ctx, fake)).state;
-      if (fake.all().filter((r) => r.strict).length > before) tried.push(iteration);
+      const out = await step(state, ctx, fake);
+      state = out.state;
+      if (out.events.some((e) => e.type === 'solved' || e.type === 'unconfirmed')) tried.push(iteration);
     }
     expect(tried).toEqual([1, 4, 7]);
     expect(state.courses[0]).toMatchObject({ crossedAt: 1, solvedAt: 7, confirmTries: 3, lastConfirmAt: 7 });
     expect(state.courses[0].solvedBy).toMatchObject({ walkerId: 0, iteration: 7, progress: 0.95 });
+  });
+
+  it('trains a course under the stricter solver once a confirmation on it has been tried', async () => {
+    const ctx = solveSetup();
+    let state = stateWith(ctx, [{ tag: 1, progress: 0 }, { tag: 2, progress: 0 }]);
+    const fake = new FakeEvaluator(ctx, (r) => (r.tag !== 1 ? 0.5 : r.strict && r.push !== 0 ? 0.2 : 0.95));
+    const esStrict: boolean[][] = [];
+    for (let i = 1; i <= 3; i++) {
+      const before = fake.all().length;
+      state = (await step(state, ctx, fake)).state;
+      // ES rollouts are the mirrored candidates (sign ±1); group them by course.
+      const es = fake.all().slice(before).filter((r) => r.sign !== 0);
+      esStrict.push([0, 1].map((id) => es.filter((r) => r.courseId === id).every((r) => r.strict)));
+    }
+    // Iteration 1: both under the run's solver; course 0 is checked (and fails) in iteration 1.
+    expect(esStrict).toEqual([[false, false], [true, false], [true, false]]);
   });
 
   it('charges every rollout on a run course to that course: ES steps, confirmations', async () => {
@@ -83,6 +100,8 @@ describe('retirement order', () => {
     return retirementOrder(ctx, draft).map((p) => p.courseId);
   }
 
+  // stateWith gives course 0 no parent and courses 1-3 parent 0: four lineages of one pair each,
+  // so the last-of-lineage rule does not separate them.
   it('retires solved pairs first, then unprotected ones oldest first, and crossed-unconfirmed ones last', () => {
     expect(fourPairs(18, 10)).toEqual([0, 2, 3, 1]);
   });
@@ -90,6 +109,23 @@ describe('retirement order', () => {
   it('stops protecting a crossed pair solve.patience iterations after it crossed', () => {
     // Crossed at 11, now 21: 10 iterations ago, patience 10 → no longer protected; oldest first.
     expect(fourPairs(11, 10)).toEqual([0, 1, 2, 3]);
+  });
+
+  it('retires a pair whose lineage has others before the last pair of a lineage', () => {
+    const ctx = contextFor(tinyRecipe({ solve: { threshold: THRESHOLD, checks: 2 } }));
+    const s = stateWith(ctx, [0, 1, 2, 3].map((tag) => ({ tag, progress: 0.5 })), 20);
+    // Course 3 becomes a child of course 1: lineage 1 = {1, 3}; lineages 0 and 2 have one pair each.
+    const courses = s.courses.map((c): CourseRecord => (c.id === 3 ? { ...c, parent: 1 } : c));
+    const order = retirementOrder(ctx, new Draft({ ...s, courses }, 21)).map((p) => p.courseId);
+    // 1 (oldest of lineage 1); then 3 is its lineage's last, like 0 and 2: oldest first.
+    expect(order).toEqual([1, 0, 2, 3]);
+  });
+
+  it('keeps pairs admitted in this round until the others have gone', () => {
+    const ctx = contextFor(tinyRecipe({ solve: { threshold: THRESHOLD, checks: 2 } }));
+    const s = stateWith(ctx, [0, 1, 2].map((tag) => ({ tag, progress: 0.5 })), 20);
+    const courses = s.courses.map((c): CourseRecord => (c.id === 1 ? { ...c, admittedAt: 21 } : c));
+    expect(retirementOrder(ctx, new Draft({ ...s, courses }, 21)).map((p) => p.courseId)).toEqual([0, 2, 1]);
   });
 });
 
