@@ -78,7 +78,7 @@ export const recipeSchema = z
         /** Candidates whose novelty is below this are refused as not novel. */
         minNovelty: num(0, 1e6).default(0),
         /** Largest mutation strength a course may reach (see adaptMutationSteps): its children are mutated about this many times. */
-        mutations: int(1, 100).default(6),
+        mutations: int(1, 100).default(12),
       })
       .strict()
       .prefault({}),
