@@ -107,14 +107,29 @@ describe('an export of the smoke run', () => {
   });
 
   it('--order difficulty lists the same courses by non-decreasing difficulty, ties by id', () => {
-    const d = byAdmission.courses.map((e) => e.difficulty);
+    // The smoke run happens to admit its courses in order of difficulty; a copy whose first
+    // and last admitted courses trade genomes is not, so the check below can fail.
+    const dir = join(tmp, 'unsorted-run');
+    cpSync(run, dir, { recursive: true });
+    const { inputs, state } = openRun(dir);
+    const [a, z] = [state.courses[1], state.courses[state.courses.length - 1]];
+    const swap = (c: CourseRecord): CourseRecord => (c.id === a.id ? { ...c, genome: z.genome, descriptor: z.descriptor } : c.id === z.id ? { ...c, genome: a.genome, descriptor: a.descriptor } : c);
+    writeCheckpoint(inputs.dir, { ...state, courses: state.courses.map(swap) }, inputs.recipeHash, inputs.recipe.checkpoint.keep);
+    exportRun(dir, join(tmp, 'u-admission'));
+    exportRun(dir, join(tmp, 'u-difficulty'), '--order', 'difficulty');
+    const admission = curriculumIn(join(tmp, 'u-admission'));
+    const sorted = curriculumIn(join(tmp, 'u-difficulty'));
+    const d = admission.courses.map((e) => e.difficulty);
     expect(d.some((v, i) => i > 0 && v < d[i - 1]), 'admission order is already sorted: the check could not fail').toBe(true);
-    expect(byDifficulty.order).toBe('difficulty');
-    expect([...ids(byDifficulty)].sort((a, b) => a - b)).toEqual([...ids(byAdmission)].sort((a, b) => a - b));
-    byDifficulty.courses.slice(1).forEach((e, i) => {
-      const prev = byDifficulty.courses[i];
-      expect(e.difficulty > prev.difficulty || (e.difficulty === prev.difficulty && e.id > prev.id)).toBe(true);
-    });
+    for (const cur of [byDifficulty, sorted]) {
+      expect(cur.order).toBe('difficulty');
+      expect([...ids(cur)].sort((x, y) => x - y)).toEqual(state.courses.map((c) => c.id));
+      cur.courses.slice(1).forEach((e, i) => {
+        const prev = cur.courses[i];
+        expect(e.difficulty > prev.difficulty || (e.difficulty === prev.difficulty && e.id > prev.id)).toBe(true);
+      });
+    }
+    expect(ids(sorted)).not.toEqual(ids(admission));
   });
 
   it('--only solved keeps exactly the courses with solvedAt set, in either order', () => {
