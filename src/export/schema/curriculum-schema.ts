@@ -2,7 +2,10 @@
  * The curriculum JSON Schema (draft 2020-12). It is a module rather than a .json file read at
  * run time so that it is compiled into dist/ with the rest of cairn: an installed package
  * never needs src/. `cairn export` writes it beside each curriculum as curriculum.schema.json.
+ * Feature kinds come from the kind registry, so adding a kind does not touch this file.
  */
+import { KIND_NAMES } from '../../terrain/index.js';
+
 export const CURRICULUM_SCHEMA: Readonly<Record<string, unknown>> = {
   "$schema": "https://json-schema.org/draft/2020-12/schema",
   "$id": "urn:cairn:curriculum:1",
@@ -134,7 +137,7 @@ export const CURRICULUM_SCHEMA: Readonly<Record<string, unknown>> = {
     "feature": {
       "type": "object",
       "required": ["kind", "x"],
-      "properties": { "kind": { "enum": ["gap", "step", "block", "slope"] }, "x": { "type": "number" } },
+      "properties": { "kind": { "enum": [...KIND_NAMES] }, "x": { "type": "number" } },
       "additionalProperties": { "type": "number" }
     },
     "course": {
