@@ -1,4 +1,5 @@
 import { loadBodyPlan } from '../body/index.js';
+import { strictRolloutOf, type Solver } from '../coevo/index.js';
 import { stream, UserError } from '../core/index.js';
 import { bodyOf, courseOf, findCourse, loadAnyWalker, loadCurriculum, loadSafetensorsWalker, rolloutOptionsOf, walkerRefOf } from '../export/index.js';
 import { sceneBatch, type Backend, type Batch } from '../pool/index.js';
@@ -63,6 +64,14 @@ export interface ExportedEval {
   readonly end: RolloutResult['end'];
   readonly exportedProgress: number | null;
   readonly matchesExport: boolean | null;
+  /**
+   * The solver of the figures above: the run's own, or the stricter one that confirms solves. A
+   * course is trained under the stricter solver after its first confirmation, so the figure the
+   * export records may have been measured under it; the run's solver is tried first.
+   */
+  readonly solver: Solver;
+  /** The same walker under the run's own solver, when the figures above are the stricter solver's. */
+  readonly runSolver: { readonly progress: number; readonly steps: number; readonly fell: boolean; readonly end: RolloutResult['end'] } | null;
 }
 
 /** Runs a one-task batch on the backend's evaluator and writes its trace, when asked, beside the course and plan name. */
@@ -97,8 +106,17 @@ export async function evalOnExportedCourse(o: ExportedEvalOptions): Promise<Expo
   const ref = walkerRefOf(cur, entry);
   const w = o.walker ? loadSafetensorsWalker(o.walker) : loadSafetensorsWalker(ref.path, ref.sha256);
   assertPolicyFits(w.shape, plan, o.walker ?? ref.path);
-  const batch = sceneBatch(courseOf(entry), plan, w.shape, { ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 }, Array.from(w.params));
-  const r = await rolloutOnce(batch, plan.name, o.backend, o.trace);
+  const options = { ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 };
   const expected = o.walker ? null : ref.progress;
-  return { course: entry.id, progress: r.progress, fitness: r.fitness, steps: r.steps, fell: r.fell, end: r.end, exportedProgress: expected, matchesExport: expected === null ? null : r.progress === expected };
+  const r = await rolloutOnce(sceneBatch(courseOf(entry), plan, w.shape, options, Array.from(w.params)), plan.name, o.backend, o.trace);
+  const figures = (x: RolloutResult, solver: Solver, runSolver: ExportedEval['runSolver']): ExportedEval => ({
+    course: entry.id, progress: x.progress, fitness: x.fitness, steps: x.steps, fell: x.fell, end: x.end,
+    exportedProgress: expected, matchesExport: expected === null ? null : x.progress === expected, solver, runSolver,
+  });
+  // Only a crossed course can have had a confirmation, and so training under the stricter solver.
+  const crossed = entry.crossedAt != null || entry.solvedAt !== null;
+  if (expected === null || r.progress === expected || !crossed || o.body !== undefined) return figures(r, 'run', null);
+  const strict = await rolloutOnce(sceneBatch(courseOf(entry), plan, w.shape, strictRolloutOf(options), Array.from(w.params)), plan.name, o.backend, o.trace);
+  if (strict.progress !== expected) return figures(r, 'run', null);
+  return figures(strict, 'strict', { progress: r.progress, steps: r.steps, fell: r.fell, end: r.end });
 }

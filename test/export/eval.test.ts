@@ -9,7 +9,11 @@ import { cpSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { actionSize, observationSize } from '../../src/body/index.js';
-import { openRun, saveWalker } from '../../src/store/index.js';
+import type { CourseRecord } from '../../src/coevo/index.js';
+import { InlineEvaluator, sceneBatch } from '../../src/pool/index.js';
+import { Run } from '../../src/run/index.js';
+import { openRun, saveWalker, writeCheckpoint } from '../../src/store/index.js';
+import { buildCourse } from '../../src/terrain/index.js';
 import { cairn, cairnAsync, cleanup, exportRun, readJson, ROOT, smokeRun, solvedVariant, tempDir, type SolvedVariant } from './helpers.js';
 
 interface Ref { progress: number; walker: { file: string; sha256: string } }
@@ -61,6 +65,40 @@ describe('cairn eval --curriculum', () => {
     expect(got.progress).toBe(entry.solvedBy!.progress);
     expect(got.matchesExport).toBe(true);
   });
+
+  it('checks a figure recorded under the stricter solver under that solver, and shows the run solver\'s figure too', async () => {
+    // A course trained on after a failed confirmation is trained under the stricter solver, so the
+    // figure recorded when it is solved on a retry is that solver's. Here course 3 of a copy of the
+    // smoke run is marked solved by its best walker with the progress that walker reaches under
+    // the stricter solver (README: twice the velocity and position iterations, unpushed), computed
+    // here with the physics settings written out by hand, not with cairn's helper.
+    const dir = join(tmp, 'strict-run');
+    cpSync(smokeRun(), dir, { recursive: true });
+    const r = Run.open(dir);
+    const { state, inputs } = openRun(dir);
+    const rec = state.courses.find((c) => c.id === 3)!;
+    const physics = { ...r.ctx.rollout.physics, velocityIterations: 2 * r.ctx.rollout.physics.velocityIterations, positionIterations: 2 * r.ctx.rollout.physics.positionIterations };
+    const ev = new InlineEvaluator();
+    const batch = (p: typeof physics) => sceneBatch(buildCourse(rec.genome, inputs.family), inputs.plan, r.ctx.shape, { ...r.ctx.rollout, physics: p }, rec.best.params);
+    const [strict] = await ev.evaluate(batch(physics));
+    const [own] = await ev.evaluate(batch(r.ctx.rollout.physics));
+    await ev.close();
+    expect(strict.progress).not.toBe(own.progress); // otherwise the two solvers could not be told apart here
+    const marked = state.courses.map((c): CourseRecord => (c.id === 3 ? { ...c, solvedAt: state.iteration, solvedBy: { ...c.best, progress: strict.progress } } : c));
+    writeCheckpoint(inputs.dir, { ...state, courses: marked }, inputs.recipeHash, inputs.recipe.checkpoint.keep);
+    exportRun(dir, join(tmp, 'strict-exp'));
+    const e = cairn(['eval', '--curriculum', join(tmp, 'strict-exp', 'curriculum.json'), '--course', '3', '--json']);
+    expect(e.code, e.stderr).toBe(0);
+    const got = JSON.parse(e.stdout) as EvalJson & { solver: string; runSolver: { progress: number } | null };
+    expect([got.progress, got.matchesExport, got.solver]).toEqual([strict.progress, true, 'strict']);
+    expect(got.runSolver?.progress).toBe(own.progress);
+    const text = cairn(['eval', '--curriculum', join(tmp, 'strict-exp', 'curriculum.json'), '--course', '3']);
+    expect(text.stdout).toMatch(/under the stricter solver {2}\(equals the exported figure\)/);
+    expect(text.stdout).toContain(`under the run's own solver: progress ${own.progress.toFixed(4)}`);
+    // Courses whose figure is the run solver's are still reported under it.
+    const plain = cairn(['eval', '--curriculum', file, '--course', String(courses[0].id), '--json']);
+    expect((JSON.parse(plain.stdout) as { solver: string; runSolver: unknown }).solver).toBe('run');
+  }, 600_000);
 
   it('refuses a walker file whose bytes changed: SHA-256 mismatch, exit 2', () => {
     const copy = join(tmp, 'tampered');

@@ -19,7 +19,12 @@ async function evalCurriculum(o: EvalOptions & { curriculum: string }): Promise<
   else {
     const expected = r.exportedProgress;
     const match = expected === null ? '' : r.matchesExport ? '  (equals the exported figure)' : `  (exported figure was ${expected})`;
-    process.stdout.write(`course ${r.course}: progress ${r.progress.toFixed(4)}${match}  steps ${r.steps}  ${r.fell ? 'fell' : 'did not fall'}  ended: ${r.end}\n`);
+    const solver = r.solver === 'strict' ? ' under the stricter solver' : '';
+    process.stdout.write(`course ${r.course}: progress ${r.progress.toFixed(4)}${solver}${match}  steps ${r.steps}  ${r.fell ? 'fell' : 'did not fall'}  ended: ${r.end}\n`);
+    if (r.runSolver !== null) {
+      const o = r.runSolver;
+      process.stdout.write(`  under the run's own solver: progress ${o.progress.toFixed(4)}  steps ${o.steps}  ${o.fell ? 'fell' : 'did not fall'}  ended: ${o.end}\n`);
+    }
   }
 }
 
