@@ -1,12 +1,12 @@
 import { loadBodyPlan } from '../body/index.js';
-import { strictRolloutOf, type Solver } from '../coevo/index.js';
+import { crossedOrSolved, strictRolloutOf, type Solver } from '../coevo/index.js';
 import { stream, UserError } from '../core/index.js';
 import { bodyOf, courseOf, findCourse, loadAnyWalker, loadCurriculum, loadSafetensorsWalker, rolloutOptionsOf, walkerRefOf } from '../export/index.js';
 import { sceneBatch, type Backend, type Batch } from '../pool/index.js';
 import { initParams, type Activation } from '../policy/index.js';
 import { assertPolicyFits, defaultRolloutOptions, type RolloutResult } from '../sim/index.js';
 import { writeFileAtomic } from '../store/index.js';
-import { buildCourse, loadTerrainSource } from '../terrain/index.js';
+import { buildCourse, loadTerrainSource, type Course } from '../terrain/index.js';
 import { freshShape, withEvaluator } from './scene.js';
 
 /** `cairn eval` on a terrain family or genome file. */
@@ -71,13 +71,18 @@ export interface ExportedEval {
    */
   readonly solver: Solver;
   /** The same walker under the run's own solver, when the figures above are the stricter solver's. */
-  readonly runSolver: { readonly progress: number; readonly steps: number; readonly fell: boolean; readonly end: RolloutResult['end'] } | null;
+  readonly runSolver: Pick<RolloutResult, 'progress' | 'steps' | 'fell' | 'end'> | null;
 }
 
-/** Runs a one-task batch on the backend's evaluator and writes its trace, when asked, beside the course and plan name. */
+/** Writes a rollout's trace, when asked, beside the course and plan name. */
+function writeTrace(trace: string | undefined, course: Course, planName: string, r: RolloutResult): void {
+  if (trace && r.trace) writeFileAtomic(trace, `${JSON.stringify({ course, plan: planName, trace: r.trace })}\n`);
+}
+
+/** Runs a one-task batch on the backend's evaluator and writes its trace, when asked. */
 async function rolloutOnce(batch: Batch, planName: string, backend: Backend, trace: string | undefined): Promise<RolloutResult> {
   const [r] = await withEvaluator(backend, (evaluator) => evaluator.evaluate(batch));
-  if (trace && r.trace) writeFileAtomic(trace, `${JSON.stringify({ course: batch.courses[0], plan: planName, trace: r.trace })}\n`);
+  writeTrace(trace, batch.courses[0], planName, r);
   return r;
 }
 
@@ -106,17 +111,23 @@ export async function evalOnExportedCourse(o: ExportedEvalOptions): Promise<Expo
   const ref = walkerRefOf(cur, entry);
   const w = o.walker ? loadSafetensorsWalker(o.walker) : loadSafetensorsWalker(ref.path, ref.sha256);
   assertPolicyFits(w.shape, plan, o.walker ?? ref.path);
+  const course = courseOf(entry);
+  const params = Array.from(w.params);
   const options = { ...rolloutOptionsOf(cur), traceEvery: o.trace ? 5 : 0 };
   const expected = o.walker ? null : ref.progress;
-  const r = await rolloutOnce(sceneBatch(courseOf(entry), plan, w.shape, options, Array.from(w.params)), plan.name, o.backend, o.trace);
-  const figures = (x: RolloutResult, solver: Solver, runSolver: ExportedEval['runSolver']): ExportedEval => ({
-    course: entry.id, progress: x.progress, fitness: x.fitness, steps: x.steps, fell: x.fell, end: x.end,
-    exportedProgress: expected, matchesExport: expected === null ? null : x.progress === expected, solver, runSolver,
-  });
   // Only a crossed course can have had a confirmation, and so training under the stricter solver.
-  const crossed = entry.crossedAt != null || entry.solvedAt !== null;
-  if (expected === null || r.progress === expected || !crossed || o.body !== undefined) return figures(r, 'run', null);
-  const strict = await rolloutOnce(sceneBatch(courseOf(entry), plan, w.shape, strictRolloutOf(options), Array.from(w.params)), plan.name, o.backend, o.trace);
-  if (strict.progress !== expected) return figures(r, 'run', null);
-  return figures(strict, 'strict', { progress: r.progress, steps: r.steps, fell: r.fell, end: r.end });
+  const mayBeStrict = expected !== null && o.body === undefined && crossedOrSolved({ crossedAt: entry.crossedAt ?? null, solvedAt: entry.solvedAt });
+  const { r, strict } = await withEvaluator(o.backend, async (evaluator) => {
+    const [own] = await evaluator.evaluate(sceneBatch(course, plan, w.shape, options, params));
+    if (!mayBeStrict || own.progress === expected) return { r: own, strict: null };
+    const [s] = await evaluator.evaluate(sceneBatch(course, plan, w.shape, strictRolloutOf(options), params));
+    return { r: own, strict: s.progress === expected ? s : null };
+  });
+  const shown = strict ?? r;
+  writeTrace(o.trace, course, plan.name, shown);
+  return {
+    course: entry.id, progress: shown.progress, fitness: shown.fitness, steps: shown.steps, fell: shown.fell, end: shown.end,
+    exportedProgress: expected, matchesExport: expected === null ? null : shown.progress === expected,
+    solver: strict ? 'strict' : 'run', runSolver: strict ? { progress: r.progress, steps: r.steps, fell: r.fell, end: r.end } : null,
+  };
 }
