@@ -12,6 +12,8 @@ export interface BenchScene {
   readonly params: Float64Array;
   /** Ground segments of the course. */
   readonly segments: number;
+  /** The family's flat start course (two segments): the cheapest rollout there is, for jobs that should cost nothing. */
+  readonly flat: Course;
 }
 
 export function benchScene(root: string): BenchScene {
@@ -23,7 +25,7 @@ export function benchScene(root: string): BenchScene {
   const course = buildCourse(genome, family);
   const plan = loadBodyPlan(`${root}/envs/bodies/trestle.json`);
   const shape: PolicyShape = { inputs: observationSize(plan), hidden: [], outputs: actionSize(plan), activation: 'tanh' };
-  return { course, plan, shape, params: initParams(shape, stream(1, 'bench/walker')), segments: course.ground.length / 2 - 1 };
+  return { course, plan, shape, params: initParams(shape, stream(1, 'bench/walker')), segments: course.ground.length / 2 - 1, flat: buildCourse(family.start, family) };
 }
 
 /** Rollout options for timing: a fixed number of steps (stall rule off). */

@@ -1,6 +1,8 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
-import { makeEvaluator, QueueTransport, parseRedisUrl, ScheduledEvaluator, threads } from '../pool/index.js';
+import { Redis } from 'ioredis';
+import { median } from '../core/index.js';
+import { makeEvaluator, QueueTransport, parseRedisUrl, redisOptions, ScheduledEvaluator, threads } from '../pool/index.js';
 import { benchBatch, timeInTurns } from './pool-bench.js';
 import type { BenchScene } from './fixture.js';
 
@@ -30,6 +32,17 @@ async function stopWorkers(kids: readonly ChildProcess[]): Promise<void> {
   })));
 }
 
+/** CPU time redis-server has used since it started, ms (`INFO cpu`: used_cpu_user + used_cpu_sys, in seconds). */
+export async function redisCpuMsOf(client: Redis): Promise<number> {
+  const info = await client.info('cpu');
+  const field = (name: string): number => {
+    const m = new RegExp(`^${name}:([0-9.]+)`, 'm').exec(info);
+    if (!m) throw new Error(`Redis INFO cpu has no ${name}`);
+    return Number(m[1]) * 1000;
+  };
+  return field('used_cpu_user') + field('used_cpu_sys');
+}
+
 export interface QueueBench {
   /** Cores given to rollouts on each side: threads of this process, or one worker process with that many threads. */
   readonly cores: number;
@@ -40,13 +53,22 @@ export interface QueueBench {
   readonly queueMs: number;
   /** Queue throughput over worker-thread throughput at equal cores (target ≥ 0.9). */
   readonly ratio: number;
-  /** Jobs of one one-step rollout each that one coordinator and Redis turn around per second (target ≥ 2,000). */
+  /** Jobs of one one-step rollout each turned around per second with the workers on this machine's cores too (wall clock, median round). */
   readonly trivialJobsPerSecond: number;
+  /** CPU time per trivial job of the coordinator process and of redis-server (Redis's own INFO cpu), ms. */
+  readonly coordinatorMsPerJob: number;
+  readonly redisMsPerJob: number;
+  /**
+   * Jobs per second one coordinator and Redis sustain with a core each and the workers elsewhere:
+   * 1,000 / the larger of the two CPU times per job (target ≥ 2,000). Derived from measured CPU
+   * time, not a wall-clock rate; both are single-threaded, so neither can go faster than this.
+   */
+  readonly capacityJobsPerSecond: number;
   readonly trivialJobs: number;
   /** Mean rollout time and job size of the batch above, used for the projection. */
   readonly rolloutMs: number;
   readonly jobSize: number;
-  /** What the coordinator's job rate would allow at larger core counts: a projection, not a measurement. */
+  /** What the coordinator's and Redis's capacity would allow at larger core counts: a projection, not a measurement. */
   readonly projection: readonly { readonly cores: number; readonly jobsPerSecondNeeded: number; readonly coordinatorShare: number; readonly projectedSpeedup: number }[];
 }
 
@@ -72,28 +94,48 @@ export async function benchQueue(scene: BenchScene, url: string, cores: number, 
     await Promise.all([local.close(), remote.close()]);
     await stopWorkers(kids);
   }
-  // Trivial jobs: one rollout of one step each, so the coordinator, Redis and BullMQ are the cost.
+  // Trivial jobs: one one-step rollout each on the two-segment flat course, so the coordinator,
+  // Redis and BullMQ are the cost. The worker processes share this machine's cores; the CPU time
+  // the coordinator and Redis spend per job says what they sustain with the workers elsewhere.
   kids = await startWorkers(url, queue, Math.max(2, cores), 2);
   const trivialTransport = new QueueTransport({ address, queue, redisTimeoutS: 60, jobSize: 1 });
   const trivial = new ScheduledEvaluator(trivialTransport, { taskTimeoutMs: Infinity });
-  let trivialMs: number;
+  const probe = new Redis(redisOptions(address));
+  probe.on('error', () => undefined);
+  const walls: number[] = [];
+  let coordinatorCpuMs = 0;
+  let redisCpuMs = 0;
   try {
     await trivialTransport.connect(30);
-    const tiny = benchBatch(scene, trivialJobs, 1);
-    [trivialMs] = await timeInTurns(tiny, [trivial], 1, Math.max(2, Math.ceil(rounds / 2)));
+    const tiny = { ...benchBatch(scene, trivialJobs, 1), courses: [scene.flat] };
+    await trivial.evaluate(tiny);
+    for (let r = 0; r < Math.max(3, Math.ceil(rounds / 2)); r++) {
+      const cpu0 = process.cpuUsage();
+      const redis0 = await redisCpuMsOf(probe);
+      const t0 = performance.now();
+      await trivial.evaluate(tiny);
+      walls.push(performance.now() - t0);
+      const cpu = process.cpuUsage(cpu0);
+      coordinatorCpuMs += (cpu.user + cpu.system) / 1000;
+      redisCpuMs += (await redisCpuMsOf(probe)) - redis0;
+    }
   } finally {
+    probe.disconnect();
     await trivial.close();
     await stopWorkers(kids);
   }
-  const trivialJobsPerSecond = trivialJobs / (trivialMs / 1000);
+  const trivialJobsPerSecond = trivialJobs / (median(walls) / 1000);
+  const coordinatorMsPerJob = coordinatorCpuMs / (walls.length * trivialJobs);
+  const redisMsPerJob = redisCpuMs / (walls.length * trivialJobs);
+  const capacityJobsPerSecond = 1000 / Math.max(coordinatorMsPerJob, redisMsPerJob);
   const rolloutMs = (threadsMs * cores) / tasks;
   const jobSize = Math.min(16, Math.max(1, Math.ceil(tasks / (4 * cores))));
   const ratio = threadsMs / queueMs;
   const projection = [16, 256, 1024].map((c) => {
-    // Each core finishes a job every jobSize·rolloutMs; the coordinator turns around trivialJobsPerSecond at most.
+    // Each core finishes a job every jobSize·rolloutMs; the coordinator and Redis turn around capacityJobsPerSecond at most.
     const jobsPerSecondNeeded = c / ((jobSize * rolloutMs) / 1000);
-    const coordinatorShare = Math.min(1, trivialJobsPerSecond / jobsPerSecondNeeded);
+    const coordinatorShare = Math.min(1, capacityJobsPerSecond / jobsPerSecondNeeded);
     return { cores: c, jobsPerSecondNeeded, coordinatorShare, projectedSpeedup: c * coordinatorShare * Math.min(1, ratio) };
   });
-  return { cores, tasks, steps, threadsMs, queueMs, ratio, trivialJobsPerSecond, trivialJobs, rolloutMs, jobSize, projection };
+  return { cores, tasks, steps, threadsMs, queueMs, ratio, trivialJobsPerSecond, coordinatorMsPerJob, redisMsPerJob, capacityJobsPerSecond, trivialJobs, rolloutMs, jobSize, projection };
 }

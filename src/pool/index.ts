@@ -10,6 +10,6 @@ export { runTask } from './run-task.js';
 export { serveTasks } from './worker-loop.js';
 export type { TaskRunner } from './worker-loop.js';
 export { makeEvaluator, defaultWorkerCount, threads, queueBackend, describeBackend } from './make.js';
-export { serveQueue, parseRedisUrl, QueueTransport, QUEUE_TIMING } from './queue/index.js';
+export { serveQueue, parseRedisUrl, redisOptions, QueueTransport, QUEUE_TIMING } from './queue/index.js';
 export type { QueueWorker, RedisAddress } from './queue/index.js';
 export type { Backend } from './make.js';

@@ -3,13 +3,15 @@
  * planck-js / Node version, and batch tables that are not what they claim. Each fails with a
  * message saying why, and the worker goes on to serve a real run. Real Redis, real BullMQ.
  */
-import { rmSync } from 'node:fs';
+import { execSync } from 'node:child_process';
+import { readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { Queue, QueueEvents } from 'bullmq';
 import { Redis } from 'ioredis';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writerVersions } from '../../src/core/index.js';
 import { startRedis, type RedisServer } from '../../src/bench/redis-server.js';
+import { redisCpuMsOf } from '../../src/bench/queue-bench.js';
 import { cliOk, ensureBuilt, SLOW, startCli, status, tempDir, waitFor, writeTinyRecipe, type Started } from '../store/helpers.js';
 
 let root = '';
@@ -85,5 +87,24 @@ describe('cairn worker refuses', () => {
     expect((await status(join(root, 'queued'))).fingerprint).toBe((await status(join(root, 'local'))).fingerprint);
     expect(worker.child.exitCode).toBeNull();
     expect(worker.out().stderr).toMatch(/job forged-3 failed: refused a job from another version/);
+  }, SLOW);
+});
+
+describe('the queue benchmark\'s Redis CPU probe', () => {
+  it('agrees with the kernel\'s account of the redis-server process', async () => {
+    // Outside reference: proc(5), /proc/<pid>/stat fields 14 and 15 (utime, stime) in clock
+    // ticks of sysconf(_SC_CLK_TCK), here read with getconf(1).
+    const tick = 1000 / Number(execSync('getconf CLK_TCK').toString().trim());
+    const kernelMs = (): number => {
+      const fields = readFileSync(`/proc/${redis.process.pid}/stat`, 'utf8').split(') ')[1].split(' ');
+      return (Number(fields[11]) + Number(fields[12])) * tick;
+    };
+    const work = Array.from({ length: 20_000 }, (_, i) => ['set', `probe:${i}`, 'x'.repeat(200)]);
+    await control.pipeline(work).exec();
+    const [before, viaInfo, after] = [kernelMs(), await redisCpuMsOf(control), kernelMs()];
+    expect(before).toBeGreaterThan(0);
+    // INFO cpu has microsecond resolution, /proc whole ticks: equal to within two ticks.
+    expect(viaInfo).toBeGreaterThanOrEqual(before - 2 * tick);
+    expect(viaInfo).toBeLessThanOrEqual(after + 2 * tick);
   }, SLOW);
 });

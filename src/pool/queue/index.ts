@@ -2,7 +2,7 @@ export { QueueTransport, FatalTransportError } from './coordinator.js';
 export type { QueueTransportOptions } from './coordinator.js';
 export { serveQueue } from './serve.js';
 export type { ServeOptions, QueueWorker } from './serve.js';
-export { parseRedisUrl } from './url.js';
+export { parseRedisUrl, redisOptions } from './url.js';
 export type { RedisAddress } from './url.js';
 export { parseJobData, parseTables, JOB_FORMAT } from './payload.js';
 export type { JobData, JobReturn } from './payload.js';
