@@ -82,6 +82,7 @@ function queueRows(q: QueueBench): Row[] {
     [`coordinator + Redis, ${q.trivialJobs} one-step jobs, workers on the same cores`, `${fmt(q.trivialJobsPerSecond)} jobs/s (wall clock)`, ''],
     ['CPU time per job: coordinator / Redis', `${fmt(q.coordinatorMsPerJob, 3)} / ${fmt(q.redisMsPerJob, 3)} ms`, ''],
     ['coordinator + Redis with a core each, workers elsewhere', `${fmt(q.capacityJobsPerSecond)} jobs/s (1,000 / the larger CPU time per job)`, 'target ≥ 2,000'],
+    ['the same jobs answered by consumers that run nothing', `${fmt(q.echoJobsPerSecond)} jobs/s (wall clock)`, 'target ≥ 2,000'],
   ];
   for (const p of q.projection) {
     rows.push([`projection, ${p.cores} cores`, `needs ${fmt(p.jobsPerSecondNeeded)} jobs/s at ${q.jobSize} rollouts/job of ${fmt(q.rolloutMs, 1)} ms; the coordinator and Redis can feed ${fmt(100 * p.coordinatorShare)}% of them; speed-up ≈ ${fmt(p.projectedSpeedup)}`, 'projection']);
