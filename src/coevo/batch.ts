@@ -19,6 +19,16 @@ export type TaskHandle = Handle<'task'>;
 export type Solver = 'run' | 'strict';
 
 /**
+ * The solver a course's walkers are trained and compared under: the run's own until a
+ * confirmation on the course has been tried, the stricter one from then on, so its walker grows
+ * robust instead of exploiting the run's own solver, and a transfer is judged by the same physics
+ * the holder trains under.
+ */
+export function courseSolver(c: Pick<CourseRecord, 'confirmTries'>): Solver {
+  return c.confirmTries > 0 ? 'strict' : 'run';
+}
+
+/**
  * The rollouts one phase of an iteration plans: courses and base vectors are added once and
  * referred to by handle; rollout options are named by solver and push, not by slot number.
  * `run` evaluates them, counts them in the draft, and returns results read by task handle.

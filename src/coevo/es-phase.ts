@@ -1,6 +1,6 @@
 import { stream } from '../core/index.js';
 import type { Evaluator } from '../pool/index.js';
-import { PhaseBatch } from './batch.js';
+import { courseSolver, PhaseBatch } from './batch.js';
 import type { RunContext } from './context.js';
 import type { Draft } from './draft.js';
 import { finishEsStep } from './es-batch.js';
@@ -18,9 +18,7 @@ export async function esPhase(ctx: RunContext, draft: Draft, evaluator: Evaluato
     // One push per pair and iteration, shared by all its candidates (common random numbers), so
     // mirrored candidates are compared under the same disturbance while walkers learn to bear it.
     const push = maxPush > 0 ? stream(ctx.recipe.seed, `iteration/${draft.iteration}/course/${p.courseId}/push`).uniform(-maxPush, maxPush) : 0;
-    // A course whose crossing failed a confirmation is trained under the stricter solver from
-    // then on, so its walker grows robust instead of exploiting the run's own solver.
-    const solver = draft.course(p.courseId).confirmTries > 0 ? 'strict' : 'run';
+    const solver = courseSolver(draft.course(p.courseId));
     return b.esStep(p.es, b.course(p.courseId), b.episode(solver, push), b.episode(solver));
   });
   const results = await b.run(evaluator, draft);

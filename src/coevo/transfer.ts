@@ -1,5 +1,5 @@
 import type { Evaluator } from '../pool/index.js';
-import { PhaseBatch, type TaskHandle } from './batch.js';
+import { courseSolver, PhaseBatch, type TaskHandle } from './batch.js';
 import { freshEs, type RunContext } from './context.js';
 import type { Draft } from './draft.js';
 import { finishEsStep, type PlannedEsStep } from './es-batch.js';
@@ -18,12 +18,13 @@ interface Target {
   readonly offers: Offer[];
 }
 
-/** Batch 1: each pair's incumbent and every other active walker, as they are, on the pair's course. */
+/** Batch 1: each pair's incumbent and every other active walker, as they are, on the pair's course (under the course's solver). */
 async function zeroShot(ctx: RunContext, draft: Draft, evaluator: Evaluator): Promise<Target[]> {
   const b = new PhaseBatch(ctx, draft);
   const plan = draft.pairs.map((p) => {
     const c = b.course(p.courseId);
-    return { p, inc: b.rollout(c, p.es.mean), others: draft.pairs.filter((q) => q !== p).map((q) => ({ q, t: b.rollout(c, q.es.mean) })) };
+    const e = b.episode(courseSolver(draft.course(p.courseId)));
+    return { p, inc: b.rollout(c, p.es.mean, e), others: draft.pairs.filter((q) => q !== p).map((q) => ({ q, t: b.rollout(c, q.es.mean, e) })) };
   });
   const r = await b.run(evaluator, draft);
   return plan.map(({ p, inc, others }) => ({
@@ -43,7 +44,8 @@ async function fineTune(ctx: RunContext, draft: Draft, evaluator: Evaluator, tar
     const ranked = [...target.offers].sort((x, y) => y.progress - x.progress).slice(0, top);
     for (const o of ranked) {
       const es = freshEs(ctx, o.params, `iteration/${draft.iteration}/transfer/${target.pair.courseId}/${o.from.walkerId}`);
-      steps.push({ target, from: o.from, planned: b.esStep(es, b.course(target.pair.courseId)) });
+      const id = target.pair.courseId;
+      steps.push({ target, from: o.from, planned: b.esStep(es, b.course(id), b.episode(courseSolver(draft.course(id)))) });
     }
   }
   if (steps.length === 0) return;
@@ -51,7 +53,8 @@ async function fineTune(ctx: RunContext, draft: Draft, evaluator: Evaluator, tar
   const b2 = new PhaseBatch(ctx, draft);
   const tuned = steps.map((s) => {
     const params = finishEsStep(s.planned, ctx.es, r.all).state.mean;
-    const task: TaskHandle = b2.rollout(b2.course(s.target.pair.courseId), params);
+    const id = s.target.pair.courseId;
+    const task: TaskHandle = b2.rollout(b2.course(id), params, b2.episode(courseSolver(draft.course(id))));
     return { ...s, params, task };
   });
   const r2 = await b2.run(evaluator, draft);

@@ -15,7 +15,7 @@ import {
 import { proposeCandidates } from '../../src/coevo/admission.js';
 import { Draft } from '../../src/coevo/draft.js';
 import { difficulty, normalisedDescriptor, type TerrainGenome } from '../../src/terrain/index.js';
-import { contextFor, courseRecord, FakeEvaluator, ROOT, stateWith, tinyRecipe } from './helpers.js';
+import { contextFor, courseRecord, FakeEvaluator, ROOT, stateWith, tinyRecipe, type FakeRollout } from './helpers.js';
 
 const THRESHOLD = 0.9;
 const MIXED = join(ROOT, 'envs/terrain/mixed.json');
@@ -74,6 +74,29 @@ describe('crossed and solved', () => {
     }
     // Iteration 1: both under the run's solver; course 0 is checked (and fails) in iteration 1.
     expect(esStrict).toEqual([[false, false], [true, false], [true, false]]);
+  });
+
+  it('judges transfers onto a course under the solver its walker trains under', async () => {
+    const ctx = contextFor(tinyRecipe({ transfer: { interval: 1, fineTuneTop: 0, margin: 0.01 } }));
+    const base = stateWith(ctx, [{ tag: 1, progress: 0 }, { tag: 2, progress: 0 }]);
+    // Course 0 has had a confirmation tried (so it trains under the stricter solver); course 1 has not.
+    const state: RunState = { ...base, courses: base.courses.map((c) => (c.id === 0 ? { ...c, confirmTries: 1, crossedAt: 0, lastConfirmAt: 0 } : c)) };
+    // On course 0 walker 1 is the better walker under the stricter solver, walker 2 under the run's own;
+    // on course 1 walker 1 is better under the run's own solver.
+    const rule = (r: FakeRollout): number => {
+      if (r.courseId === 0) return r.strict ? (r.tag === 1 ? 0.9 : 0.5) : r.tag === 1 ? 0.3 : 0.8;
+      return r.strict ? 0.1 : r.tag === 1 ? 0.6 : 0.5;
+    };
+    const fake = new FakeEvaluator(ctx, rule);
+    const out = await step(state, ctx, fake);
+    const takeovers = out.events.filter((e) => e.type === 'takeover');
+    expect(takeovers).toHaveLength(1);
+    expect(takeovers[0]).toMatchObject({ courseId: 1, fromCourse: 0, progress: 0.6, incumbentProgress: 0.5 });
+    expect(out.state.pairs.find((p) => p.courseId === 0)!.walkerId).toBe(0);
+    // Every rollout on course 0 ran under the stricter solver, none on course 1.
+    const all = fake.all().filter((r) => r.courseId !== null);
+    expect(all.filter((r) => r.courseId === 0).every((r) => r.strict)).toBe(true);
+    expect(all.filter((r) => r.courseId === 1).some((r) => r.strict)).toBe(false);
   });
 
   it('charges every rollout on a run course to that course: ES steps, confirmations', async () => {
