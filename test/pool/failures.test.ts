@@ -35,7 +35,7 @@ describe.each<FaultTask['mode']>(['throw', 'exit', 'hang'])('a task that does "%
     await expect(ev.evaluate(batch)).rejects.toThrow(new RegExp(`^task ${FAULT_AT} \\(fault\\) failed twice`));
     expect(events.filter((e) => e.tasks.includes(FAULT_AT)).length, JSON.stringify(events)).toBeGreaterThanOrEqual(2);
     expect(canonicalJson(await ev.evaluate(after))).toBe(canonicalJson(expectedAfter));
-  }, 30_000);
+  }, 60_000);
 });
 
 describe('threads that keep failing', () => {
@@ -49,5 +49,5 @@ describe('threads that keep failing', () => {
     expect(messages.slice(0, 2)).toEqual(['task 0 (fault) failed twice: worker threw: injected fault: throw', 'task 0 (fault) failed twice: worker threw: injected fault: throw']);
     expect(messages[2]).toMatch(/^worker threads keep failing \(5 times in a row\)/);
     await expect(ev.evaluate(after)).rejects.toThrow(/keep failing/);
-  }, 30_000);
+  }, 60_000);
 });

@@ -44,7 +44,7 @@ describe.each<FaultTask['mode']>(['throw', 'exit', 'hang'])('a worker whose task
     expect(replaced.length, JSON.stringify(events)).toBeGreaterThanOrEqual(1);
     // The next batch runs on the replacement thread and the surviving one.
     expect(canonicalJson(await evaluator!.evaluate(after))).toBe(canonicalJson(expectedAfter));
-  }, 30_000);
+  }, 60_000);
 });
 
 describe('the checks above', () => {
