@@ -2,7 +2,7 @@ import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { canonicalJson } from '../../src/core/index.js';
 import { emptyBatch, type Batch, type PoolEvent, type ThreadEvaluator } from '../../src/pool/index.js';
 import type { RolloutResult } from '../../src/sim/index.js';
-import { ensureBuilt, faultTask, faultThreads, inline, rolloutBatch, SHORT, TASK_LIMIT_MS, withTask, type FaultTask } from './helpers.js';
+import { ensureBuilt, faultTask, faultThreads, inline, rolloutBatch, SHORT, TASK_LIMIT_MS, FAULT_TEST_MS, withTask, type FaultTask } from './helpers.js';
 
 const FAULT_AT = 3;
 const NEVER = 1_000_000;
@@ -35,7 +35,7 @@ describe.each<FaultTask['mode']>(['throw', 'exit', 'hang'])('a task that does "%
     await expect(ev.evaluate(batch)).rejects.toThrow(new RegExp(`^task ${FAULT_AT} \\(fault\\) failed twice`));
     expect(events.filter((e) => e.tasks.includes(FAULT_AT)).length, JSON.stringify(events)).toBeGreaterThanOrEqual(2);
     expect(canonicalJson(await ev.evaluate(after))).toBe(canonicalJson(expectedAfter));
-  }, 60_000);
+  }, FAULT_TEST_MS);
 });
 
 describe('threads that keep failing', () => {
@@ -49,5 +49,5 @@ describe('threads that keep failing', () => {
     expect(messages.slice(0, 2)).toEqual(['task 0 (fault) failed twice: worker threw: injected fault: throw', 'task 0 (fault) failed twice: worker threw: injected fault: throw']);
     expect(messages[2]).toMatch(/^worker threads keep failing \(5 times in a row\)/);
     await expect(ev.evaluate(after)).rejects.toThrow(/keep failing/);
-  }, 60_000);
+  }, FAULT_TEST_MS);
 });

@@ -2,7 +2,7 @@ import { afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { canonicalJson } from '../../src/core/index.js';
 import type { Batch, PoolEvent, ThreadEvaluator } from '../../src/pool/index.js';
 import type { RolloutResult } from '../../src/sim/index.js';
-import { ensureBuilt, faultResult, faultTask, faultThreads, inline, rolloutBatch, SHORT, TASK_LIMIT_MS, withTask, type FaultTask } from './helpers.js';
+import { ensureBuilt, faultResult, faultTask, faultThreads, inline, rolloutBatch, SHORT, TASK_LIMIT_MS, FAULT_TEST_MS, withTask, type FaultTask } from './helpers.js';
 
 // Eight tasks on two workers make one task a job, so only the fault task's own job fails.
 const FAULT_AT = 3;
@@ -44,7 +44,7 @@ describe.each<FaultTask['mode']>(['throw', 'exit', 'hang'])('a worker whose task
     expect(replaced.length, JSON.stringify(events)).toBeGreaterThanOrEqual(1);
     // The next batch runs on the replacement thread and the surviving one.
     expect(canonicalJson(await evaluator!.evaluate(after))).toBe(canonicalJson(expectedAfter));
-  }, 60_000);
+  }, FAULT_TEST_MS);
 });
 
 describe('the checks above', () => {

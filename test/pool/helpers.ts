@@ -53,6 +53,12 @@ export const SHORT: readonly [number, number] = [80, 120];
  */
 export const TASK_LIMIT_MS = 8000;
 
+/**
+ * Vitest's limit for one fault test, ms: a task that hangs on both attempts costs 2 × TASK_LIMIT_MS,
+ * plus thread replacements and the batch that follows, with room for a loaded machine.
+ */
+export const FAULT_TEST_MS = 7.5 * TASK_LIMIT_MS;
+
 const family = loadFamily(join(ROOT, 'envs/terrain/starter.json'));
 const plan = loadBodyPlan(join(ROOT, 'envs/bodies/trestle.json'));
 const shape: PolicyShape = { inputs: observationSize(plan), hidden: [], outputs: actionSize(plan), activation: 'tanh' };
