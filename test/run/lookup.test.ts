@@ -2,9 +2,10 @@
  * `cairn lookup`: every walker of a run or export on one course, ranked by progress, then not
  * falling, then steps. The ranking must agree with `cairn eval` of each walker on its own, work
  * on the shipped changed body plans (same joints and sensors), skip walkers whose network does
- * not fit with a reason, and refuse bad sources with exit 2.
+ * not fit with a reason, confirm every walker by the run's own rule with --confirm, and refuse bad
+ * sources with exit 2.
  */
-import { existsSync, writeFileSync } from 'node:fs';
+import { cpSync, existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { actionSize, loadBodyPlan, observationNames } from '../../src/body/index.js';
@@ -17,8 +18,8 @@ let run = '';
 let exported = '';
 let genome = '';
 
-interface Row { walkerId: number; iteration: number; courses: number[]; progress: number; fell: boolean; steps: number; end: string }
-interface Lookup { body: string; walkers: number; ranked: Row[]; skipped: { walkerId: number; reason: string }[] }
+interface Row { walkerId: number; iteration: number; courses: number[]; progress: number; fell: boolean; steps: number; end: string; confirmed?: boolean; checks?: number[]; pushes?: number[] }
+interface Lookup { body: string; walkers: number; confirm?: { threshold: number; checks: number; push: number; seed: number }; ranked: Row[]; skipped: { walkerId: number; reason: string }[] }
 
 function lookup(...args: string[]): Lookup {
   const r = cairn(['lookup', ...args, '--json', '--workers', '2']);
@@ -94,6 +95,49 @@ describe('cairn lookup', () => {
     expect(got.ranked).toEqual([]);
     expect(got.skipped.length).toBe(got.walkers);
     expect(got.skipped[0].reason).toBe('its network takes 32 inputs and gives 8 outputs; body plan "stilt" has 26 sensors and 6 motors');
+  }, SLOW);
+
+  it('with --confirm, confirms every walker by the run\'s rule, keeps the plain figures, and ranks confirmed walkers first', () => {
+    const plain = lookup(exported, '--course', genome);
+    const got = lookup(exported, '--course', genome, '--confirm');
+    // runs/smoke.json: solve.threshold 0.9, solve.checks 2, push left at its default 0.3 N·s.
+    expect(got.confirm).toEqual({ threshold: 0.9, checks: 2, push: 0.3, seed: 1 });
+    expect(got.ranked).toHaveLength(plain.ranked.length);
+    const before = new Map(plain.ranked.map((r) => [`${r.walkerId}/${r.iteration}`, r]));
+    for (const r of got.ranked) {
+      const p = before.get(`${r.walkerId}/${r.iteration}`)!;
+      expect([r.progress, r.fell, r.steps, r.end]).toEqual([p.progress, p.fell, p.steps, p.end]);
+      expect(r.checks).toHaveLength(2);
+      expect(r.pushes![0]).toBe(0);
+      expect(Math.abs(r.pushes![1])).toBeGreaterThan(0);
+      expect(Math.abs(r.pushes![1])).toBeLessThanOrEqual(0.3);
+      expect(r.confirmed).toBe(r.checks!.every((x) => x >= 0.9));
+    }
+    got.ranked.slice(1).forEach((b, i) => {
+      const a = got.ranked[i];
+      expect(Number(a.confirmed)).toBeGreaterThanOrEqual(Number(b.confirmed));
+      if (a.confirmed === b.confirmed) expect(Math.min(...a.checks!)).toBeGreaterThanOrEqual(Math.min(...b.checks!));
+    });
+    // The pushes come from the seed: the same seed gives the same figures, another seed other pushes.
+    expect(lookup(exported, '--course', genome, '--confirm').ranked).toEqual(got.ranked);
+    const other = lookup(exported, '--course', genome, '--confirm', '--seed', '2');
+    const pushOf = (l: Lookup) => new Map(l.ranked.map((r) => [r.walkerId, r.pushes![1]]));
+    expect([...pushOf(other)].some(([id, push]) => push !== pushOf(got).get(id))).toBe(true);
+  }, SLOW);
+
+  it('refuses --confirm with exit 2 when an export does not record its run\'s solve settings', () => {
+    const old = join(tmp, 'old-export');
+    cpSync(exported, old, { recursive: true });
+    const file = join(old, 'curriculum.json');
+    const cur = JSON.parse(readFileSync(file, 'utf8')) as Record<string, unknown>;
+    delete cur.training;
+    writeFileSync(file, JSON.stringify(cur));
+    expect(lookup(old, '--course', genome).ranked.length).toBeGreaterThan(0);
+    const r = cairn(['lookup', old, '--course', genome, '--confirm', '--json']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/--confirm: .*does not record its run's solve settings/);
+    expect(r.stderr).not.toMatch(/^\s+at /m);
+    expect(r.stdout).toBe('');
   }, SLOW);
 
   it.each([
