@@ -83,16 +83,21 @@ export function pickCourses(src: Source, top: number, budget: BudgetSetting): Pi
   });
 }
 
-/** Finished results recorded in `dir` for these settings; refused when they were made with other ones. */
+/**
+ * Finished results recorded in `dir`; refused when they were made for another source or
+ * another budget. One (course, seed) result depends on nothing else, so `--top` and `--seeds`
+ * may change between calls: finished results are reused and kept, and the report shows the
+ * courses and seeds asked for.
+ */
 function readResults(file: string, fingerprint: string, settings: BaselineSettings): Recorded[] {
   if (!existsSync(file)) return [];
   const r = readJsonFile(file, 'Baseline results') as Partial<ResultsFile> | null;
   if (r === null || typeof r !== 'object' || r.format !== RESULTS_FORMAT || !Array.isArray(r.done)) {
     throw new UserError(`${file} is not a baseline results file (expected format "${RESULTS_FORMAT}"); remove it or choose another --out`);
   }
-  const was = canonicalJson({ fingerprint: r.fingerprint, settings: r.settings });
-  if (was !== canonicalJson({ fingerprint, settings })) {
-    throw new UserError(`${file} holds results for other settings (${canonicalJson({ fingerprint: r.fingerprint, ...r.settings })}), not ${canonicalJson({ fingerprint, ...settings })}; give the same settings to continue it, or remove it or choose another --out to start afresh`);
+  const was = canonicalJson({ fingerprint: r.fingerprint, budget: r.settings?.budget });
+  if (was !== canonicalJson({ fingerprint, budget: settings.budget })) {
+    throw new UserError(`${file} holds results for another source or budget (${canonicalJson({ fingerprint: r.fingerprint, budget: r.settings?.budget })}), not ${canonicalJson({ fingerprint, budget: settings.budget })}; give the same source and --rollouts to continue it, or remove it or choose another --out to start afresh`);
   }
   return r.done;
 }

@@ -3,7 +3,8 @@
  * recipe crosses nothing in its budget, so the run here lowers the solve threshold to 0.1 (and
  * the reproduction bar) and stops at 12 iterations: three courses are crossed. The figures must
  * agree with trainWalker run on its own, a stopped baseline must continue to the same output,
- * other settings and bad input must be refused with exit 2 and nothing written.
+ * another source or budget and bad input must be refused with exit 2 and nothing written; more or
+ * fewer courses and seeds over the same results reuse them.
  */
 import { cpSync, existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -110,18 +111,41 @@ describe('cairn baseline', () => {
     expect(readFileSync(join(out, 'baseline.csv'), 'utf8')).toBe(readFileSync(join(tmp, 'a', 'baseline.csv'), 'utf8'));
   }, SLOW);
 
-  it('refuses to continue results made with other settings (exit 2), leaving them as they were', () => {
+  it('refuses to continue results made with another budget (exit 2), leaving them as they were', () => {
     const results = readFileSync(join(tmp, 'a', BASELINE_RESULTS), 'utf8');
-    for (const change of [['--seeds', '1-3'], ['--rollouts', '60'], ['--top', '1']]) {
+    for (const change of [['--rollouts', '60']]) {
       const args = [...common];
       args[args.indexOf(change[0]) + 1] = change[1];
       const r = cairn(['baseline', run, ...args, '--out', join(tmp, 'a')]);
       expect(r.code, change.join(' ')).toBe(2);
-      expect(r.stderr).toContain('holds results for other settings');
+      expect(r.stderr).toContain('holds results for another source or budget');
       expect(r.stderr).not.toMatch(/\n\s+at /);
     }
     expect(readFileSync(join(tmp, 'a', BASELINE_RESULTS), 'utf8')).toBe(results);
   });
+
+  it('reuses finished courses and seeds when --top or --seeds grow, and keeps them when they shrink', () => {
+    const out = join(tmp, 'grow');
+    const small = cairn(['baseline', run, '--top', '1', '--seeds', '1', '--rollouts', '40', '--workers', '2', '--out', out, '--json']);
+    expect(small.code, small.stderr).toBe(0);
+    const row = (JSON.parse(small.stdout) as BaselineReport).rows[0];
+    expect(row.course).toBe(first.rows[0].course);
+    expect(row.direct.seeds).toEqual([first.rows[0].direct.seeds[0]]);
+    // Grown to the common settings: only the missing (course, seed) pairs are trained, and the
+    // report is the one an uninterrupted run with those settings gives.
+    const grown = cairn(['baseline', run, ...common.filter((a) => a !== '--quiet'), '--out', out, '--json']);
+    expect(grown.code, grown.stderr).toBe(0);
+    expect(grown.stderr).toContain(`course ${first.rows[0].course}, seed 1: finished earlier, skipped`);
+    expect(grown.stderr).not.toContain(`course ${first.rows[0].course}, seed 2: finished earlier`);
+    expect(JSON.parse(grown.stdout)).toEqual(first);
+    // Shrunk again: nothing is trained, the report shows what was asked, and the file keeps all four.
+    const shrunk = cairn(['baseline', run, '--top', '1', '--seeds', '2', '--rollouts', '40', '--workers', '2', '--out', out, '--json']);
+    expect(shrunk.code, shrunk.stderr).toBe(0);
+    const again = JSON.parse(shrunk.stdout) as BaselineReport;
+    expect(again.rows.map((r) => [r.course, r.direct.seeds])).toEqual([[first.rows[0].course, [first.rows[0].direct.seeds[1]]]]);
+    const file = readJson(join(out, BASELINE_RESULTS)) as { done: unknown[] };
+    expect(file.done).toHaveLength(4);
+  }, SLOW);
 
   it('reads the same courses and lineage budgets from an export as from the run', () => {
     const exp = join(tmp, 'exp');
