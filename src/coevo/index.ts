@@ -20,6 +20,6 @@ export { lineageOf, lineages, lineageRollouts, childCounts, dominantKind, liveLi
 export type { LiveLineage } from './lineage.js';
 export { newGround, coverage, coveredCells, gridCell, gridSpec, solvedInOrder } from './measures.js';
 export type { GridSpec } from './measures.js';
-export { confirmationDue, markCrossings, crossedOrSolved, confirmationPushes, confirmationHolds, confirmWalker } from './solve.js';
+export { confirmationDue, markCrossings, crossedOrSolved, confirmationPushes, confirmationHolds, confirmWalker, addConfirmationTasks } from './solve.js';
 export type { ConfirmRule } from './solve.js';
 export { retirementOrder, drawParent } from './admission.js';

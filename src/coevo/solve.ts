@@ -1,6 +1,6 @@
 import { stream, type Stream } from '../core/index.js';
 import type { BodyPlan } from '../body/index.js';
-import { sceneBatch, type Evaluator } from '../pool/index.js';
+import { sceneBatch, type Evaluator, type MutableBatch } from '../pool/index.js';
 import type { PolicyShape } from '../policy/index.js';
 import type { RolloutOptions } from '../sim/index.js';
 import type { Course } from '../terrain/index.js';
@@ -26,6 +26,14 @@ export function confirmationHolds(rule: ConfirmRule, progress: readonly number[]
   return progress.every((x) => x >= rule.threshold);
 }
 
+/** Adds a confirmation's rollouts of `params` to a one-scene batch (course, plan and shape 0): one per push, under `strict`, pushed unless the push is 0. */
+export function addConfirmationTasks(batch: MutableBatch, strict: RolloutOptions, params: readonly number[], pushes: readonly number[]): void {
+  for (const push of pushes) {
+    const options = batch.options.push(push === 0 ? strict : { ...strict, push }) - 1;
+    batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options, policy: { kind: 'params', params } });
+  }
+}
+
 /**
  * Confirms one walker on one course outside a run, by the rule the run's solve phase applies:
  * `rule.checks` rollouts of `params` under `strict` (the stricter solver), pushed as
@@ -35,9 +43,7 @@ export async function confirmWalker(
   course: Course, plan: BodyPlan, shape: PolicyShape, strict: RolloutOptions, params: readonly number[], rule: ConfirmRule, s: Stream, evaluator: Evaluator,
 ): Promise<{ readonly ok: boolean; readonly checks: readonly number[] }> {
   const batch = sceneBatch(course, plan, shape, strict);
-  for (const push of confirmationPushes(rule, s)) {
-    batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: batch.options.push(push === 0 ? strict : { ...strict, push }) - 1, policy: { kind: 'params', params } });
-  }
+  addConfirmationTasks(batch, strict, params, confirmationPushes(rule, s));
   const checks = batch.tasks.length === 0 ? [] : (await evaluator.evaluate(batch)).map((r) => r.progress);
   return { ok: confirmationHolds(rule, checks), checks };
 }

@@ -8,7 +8,7 @@ export { runStatus, writeReport, writeStrobe, exportRun, writeComparison } from 
 export type { RunStatus, PairRow } from './views.js';
 export { openSource, sourceCourse, parseSourceSpec } from './sources.js';
 export type { Source, SourceCourse, SourceWalker, CourseFigures, SourceTraining } from './sources.js';
-export { namedCourse, repertoire, lookup, compareRows, lookupPushStream } from './scene.js';
+export { namedCourse, repertoire, lookup, compareRows } from './scene.js';
 export type { RepertoireWalker, LookupRow, LookupResult, LookupConfirm, LookupConfirmation } from './scene.js';
 export { evalOnCourse, evalOnExportedCourse } from './eval.js';
 export type { CourseEvalOptions, CourseEval, ExportedEvalOptions, ExportedEval } from './eval.js';

@@ -1,5 +1,5 @@
 import { actionSize, observationSize, type BodyPlan } from '../body/index.js';
-import { confirmationHolds, confirmationPushes, strictRolloutOf, type ConfirmRule } from '../coevo/index.js';
+import { addConfirmationTasks, confirmationHolds, confirmationPushes, strictRolloutOf, type ConfirmRule } from '../coevo/index.js';
 import { stream, type Stream } from '../core/index.js';
 import { emptyBatch, makeEvaluator, type Backend, type Evaluator } from '../pool/index.js';
 import type { Activation, PolicyShape } from '../policy/index.js';
@@ -93,7 +93,7 @@ export function compareRows(a: LookupRow, b: LookupRow): number {
 }
 
 /** The stream a lookup draws walker `w`'s confirmation pushes from: one per walker, so a walker's checks do not depend on which others are in the source. */
-export function lookupPushStream(seed: number, w: { readonly walkerId: number; readonly iteration: number }): Stream {
+function lookupPushStream(seed: number, w: { readonly walkerId: number; readonly iteration: number }): Stream {
   return stream(seed, `lookup/confirm/walker/${w.walkerId}/iteration/${w.iteration}`);
 }
 
@@ -115,14 +115,9 @@ export async function lookup(src: Source, course: Course, plan: BodyPlan, rollou
   batch.shapes.push(src.shape);
   batch.options.push(rollout);
   for (const w of walkers) batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options: 0, policy: { kind: 'params', params: w.params } });
-  const strict = strictRolloutOf(rollout);
   const pushes = confirm ? walkers.map((w) => confirmationPushes(confirm.rule, lookupPushStream(confirm.seed, w))) : [];
-  pushes.forEach((list, i) => {
-    for (const push of list) {
-      const options = batch.options.push(push === 0 ? strict : { ...strict, push }) - 1;
-      batch.tasks.push({ kind: 'rollout', course: 0, plan: 0, shape: 0, options, policy: { kind: 'params', params: walkers[i].params } });
-    }
-  });
+  const strict = strictRolloutOf(rollout);
+  pushes.forEach((list, i) => addConfirmationTasks(batch, strict, walkers[i].params, list));
   const evaluator = makeEvaluator(backend);
   try {
     const results = batch.tasks.length > 0 ? await evaluator.evaluate(batch) : [];
