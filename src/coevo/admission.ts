@@ -1,11 +1,12 @@
 import { canonicalJson, stream, type Stream } from '../core/index.js';
 import type { Evaluator } from '../pool/index.js';
-import { buildCourse, descriptor, mutate, type TerrainGenome } from '../terrain/index.js';
+import { buildCourse, descriptor, mutate, normalisedDescriptor, type TerrainGenome } from '../terrain/index.js';
 import { PhaseBatch } from './batch.js';
 import { freshEs, type RunContext } from './context.js';
 import type { Draft } from './draft.js';
 import { childCounts, lineages } from './lineage.js';
 import { knnNovelty, noveltyMeasure } from './novelty.js';
+import { predictedTooEasy, withinWindow } from './screen.js';
 import type { CandidateOutcome, CourseRecord, PairState } from './state.js';
 
 /** One proposed terrain and what admission found about it. */
@@ -50,6 +51,9 @@ export function drawParent(draft: Draft, eligible: readonly PairState[], s: Stre
 /**
  * Mutates eligible parents' genomes into candidates; a parent with mutation strength m mutates
  * each child 1 to 2m − 1 times (uniform, mean m). Genomes seen before are marked duplicates.
+ * With the recipe's admission.screen on, a proposal predicted too easy (see predictedTooEasy)
+ * is returned with outcome 'screened' and another drawn in its place, until `candidates` are
+ * left for rollouts or `draws` × candidates proposals were made.
  */
 export function proposeCandidates(ctx: RunContext, draft: Draft): Candidate[] {
   const a = ctx.recipe.admission;
@@ -57,8 +61,10 @@ export function proposeCandidates(ctx: RunContext, draft: Draft): Candidate[] {
   if (parents.length === 0) return [];
   const s = stream(ctx.recipe.seed, `iteration/${draft.iteration}/admission`);
   const seen = new Set(draft.courses.map((c) => canonicalJson(c.genome)));
+  const memory = a.screen ? withinWindow(draft.screen ?? [], draft.iteration, a.screen.window) : [];
   const out: Candidate[] = [];
-  for (let i = 0; i < a.candidates; i++) {
+  let kept = 0;
+  for (let drawn = 0; kept < a.candidates && drawn < a.candidates * (a.screen?.draws ?? 1); drawn++) {
     const parent = drawParent(draft, parents, s);
     const from = draft.course(parent.courseId);
     let genome = from.genome;
@@ -67,7 +73,9 @@ export function proposeCandidates(ctx: RunContext, draft: Draft): Candidate[] {
     const key = canonicalJson(genome);
     const duplicate = seen.has(key);
     seen.add(key);
-    out.push({ parent: parent.courseId, genome, outcome: duplicate ? 'duplicate' : null, bestProgress: 0, walkerId: null, params: null, novelty: null, point: [], courseId: null });
+    const screened = !duplicate && a.screen !== undefined && predictedTooEasy(normalisedDescriptor(genome, ctx.family), memory, a.screen.k);
+    if (!screened) kept++;
+    out.push({ parent: parent.courseId, genome, outcome: duplicate ? 'duplicate' : screened ? 'screened' : null, bestProgress: 0, walkerId: null, params: null, novelty: null, point: [], courseId: null });
   }
   return out;
 }
@@ -102,8 +110,15 @@ export async function admissionPhase(ctx: RunContext, draft: Draft, evaluator: E
   // Before admission, so admitted children inherit their parent's adapted strength.
   adaptMutationSteps(ctx, draft, live);
   admitByNovelty(ctx, draft, live.filter((c) => c.outcome === null), refs);
-  draft.counters.candidates += cands.length;
+  const screened = cands.filter((c) => c.outcome === 'screened').length;
+  draft.counters.candidates += cands.length - screened;
   draft.counters.tooEasy += cands.filter((c) => c.outcome === 'too-easy').length;
+  const screen = ctx.recipe.admission.screen;
+  if (screen) {
+    draft.counters.screened = (draft.counters.screened ?? 0) + screened;
+    const fresh = live.map((c) => ({ iteration: draft.iteration, point: normalisedDescriptor(c.genome, ctx.family), tooEasy: c.outcome === 'too-easy' }));
+    draft.screen = withinWindow([...(draft.screen ?? []), ...fresh], draft.iteration, screen.window);
+  }
   draft.counters.tooHard += cands.filter((c) => c.outcome === 'too-hard').length;
   for (const c of cands) {
     draft.events.push({

@@ -1,4 +1,5 @@
 import type { RolloutResult } from '../sim/index.js';
+import type { ScreenEntry } from './screen.js';
 import type { CourseRecord, PairState, RunEvent, RunState } from './state.js';
 
 /** The working copy of a state during one iteration; `finish` turns it back into a plain, new state. */
@@ -7,7 +8,9 @@ export class Draft {
   courses: CourseRecord[];
   nextCourseId: number;
   nextWalkerId: number;
-  counters: { candidates: number; tooEasy: number; tooHard: number; takeovers: number; rollouts: number; steps: number };
+  counters: { candidates: number; tooEasy: number; tooHard: number; takeovers: number; rollouts: number; steps: number; screened?: number };
+  /** The admission screen's memory (undefined while the recipe has no screen). */
+  screen: ScreenEntry[] | undefined;
   readonly events: RunEvent[] = [];
   /** Weights each pair's walker was evaluated with in this iteration's ES phase, by course id. */
   readonly evaluated = new Map<number, readonly number[]>();
@@ -18,6 +21,7 @@ export class Draft {
     this.nextCourseId = base.nextCourseId;
     this.nextWalkerId = base.nextWalkerId;
     this.counters = { ...base.counters };
+    this.screen = base.screen ? [...base.screen] : undefined;
   }
 
   course(id: number): CourseRecord {
@@ -61,6 +65,7 @@ export class Draft {
       courses: this.courses,
       pairs: this.pairs,
       counters: { ...this.counters },
+      screen: this.screen,
     };
   }
 }

@@ -79,6 +79,19 @@ export const recipeSchema = z
         minNovelty: num(0, 1e6).default(0),
         /** Largest mutation strength a course may reach (see adaptMutationSteps): its children are mutated about this many times. */
         mutations: int(1, 100).default(12),
+        /**
+         * Optional screen before rollouts: a proposal whose k nearest candidates evaluated in the
+         * last `window` iterations (normalised descriptor) were all too easy is skipped and another
+         * drawn, up to `draws` × candidates proposals per round. Absent: every proposal is evaluated.
+         */
+        screen: z
+          .object({
+            k: int(1, 1000).default(3),
+            window: int(1, 1_000_000).default(30),
+            draws: int(1, 100).default(4),
+          })
+          .strict()
+          .optional(),
       })
       .strict()
       .prefault({}),

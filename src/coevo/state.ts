@@ -1,8 +1,9 @@
 import type { EsState } from '../evolve/index.js';
 import type { TerrainGenome } from '../terrain/index.js';
+import type { ScreenEntry } from './screen.js';
 
 /** Outcome of one candidate terrain at admission. */
-export type CandidateOutcome = 'admitted' | 'too-easy' | 'too-hard' | 'not-novel' | 'duplicate';
+export type CandidateOutcome = 'admitted' | 'too-easy' | 'too-hard' | 'not-novel' | 'duplicate' | 'screened';
 
 /** The best any walker did on a course so far, with the weights that did it. */
 export interface BestOnCourse {
@@ -71,7 +72,11 @@ export interface RunState {
     readonly takeovers: number;
     readonly rollouts: number;
     readonly steps: number;
+    /** Proposals skipped without rollouts as predicted too easy (present only when the recipe's admission.screen is on). */
+    readonly screened?: number;
   };
+  /** Evaluated candidates of the last admission.screen.window iterations (present only when the screen is on). */
+  readonly screen?: readonly ScreenEntry[];
 }
 
 /** One record in events.jsonl. */
@@ -100,6 +105,8 @@ export interface IterationMetrics {
   readonly lineages: number;
   readonly candidates: number;
   readonly tooEasy: number;
+  /** Proposals skipped as predicted too easy (only when the recipe's admission.screen is on). */
+  readonly screened?: number;
   readonly takeovers: number;
   readonly bestProgress: number;
   readonly medianProgress: number;

@@ -54,6 +54,7 @@ export function metricsOf(state: RunState, ctx: RunContext): IterationMetrics {
     lineages: liveLineages(state, (g) => difficulty(g, ctx.family)).length,
     candidates: state.counters.candidates,
     tooEasy: state.counters.tooEasy,
+    ...(state.counters.screened !== undefined ? { screened: state.counters.screened } : {}),
     takeovers: state.counters.takeovers,
     bestProgress: Math.max(0, ...progress),
     medianProgress: progress.length > 0 ? median(progress) : 0,

@@ -30,7 +30,7 @@ function measureLines(s: RunStatus): string[] {
     `hardest crossed course: ${hardest(s.hardestCrossed)}`,
     `new ground ${s.newGround}; coverage ${s.coverage} of ${s.grid.cells} cells (${s.grid.components.join(', ')}; ${s.grid.bins} bins each)`,
     `${plural(s.liveLineages.length, 'lineage')} alive${lineages.length > 0 ? ` (by first course): ${lineages.join('; ')}` : ''}`,
-    `${plural(s.candidates, 'candidate')}, ${s.tooEasy} refused as too easy${share}`,
+    `${plural(s.candidates, 'candidate')}, ${s.tooEasy} refused as too easy${share}${s.screened !== undefined ? `; ${s.screened} more proposals screened out before rollouts as predicted too easy` : ''}`,
   ];
 }
 
