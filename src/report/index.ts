@@ -7,7 +7,7 @@ export type { TreeInput, PlacedNode } from './tree.js';
 export { strobeSvg, courseBounds, courseShapes, segmentShape } from './course-svg.js';
 export { reportData } from './data.js';
 export type { ReportData, ReportCourse, ReportLineage } from './data.js';
-export { reportHtml, initialCourse } from './page.js';
+export { reportHtml, initialCourse, candidateSeries } from './page.js';
 export { compareHtml } from './compare.js';
 export type { CompareRun } from './compare.js';
 export { parseBaseline, baselineSection } from './baseline.js';

@@ -10,6 +10,7 @@ import { proposeCandidates } from '../../src/coevo/admission.js';
 import { Draft } from '../../src/coevo/draft.js';
 import { predictedTooEasy, withinWindow, type ScreenEntry } from '../../src/coevo/screen.js';
 import { normalisedDescriptor } from '../../src/terrain/index.js';
+import { candidateSeries } from '../../src/report/index.js';
 import { contextFor, FakeEvaluator, stateWith, tinyRecipe, type RecipeOverrides } from './helpers.js';
 
 type CandidateEvent = Extract<RunEvent, { type: 'candidate' }>;
@@ -101,6 +102,28 @@ describe('admission with the screen', () => {
     // Screened proposals are not counted as candidates (duplicates still are).
     expect(second.state.counters.candidates - first.state.counters.candidates).toBe(events.length - screened.length);
     expect(second.state.counters.tooEasy).toBe(first.state.counters.tooEasy);
+  });
+
+  it('gives the report a screened curve only when the run has a screen', async () => {
+    const rule = (r: { courseId: number | null; tag: number }) => (r.courseId !== null ? 0.6 : r.tag === 2 ? 0.95 : 0.5);
+    const twoSteps = async (screen: Parameters<typeof setup>[0]) => {
+      const s = setup(screen);
+      const fake = new FakeEvaluator(s.ctx, rule);
+      const first = await step(s.state, s.ctx, fake);
+      const second = await step(first.state, s.ctx, fake);
+      return { log: [first.metrics, second.metrics], events: [...first.events, ...second.events].filter((e): e is CandidateEvent => e.type === 'candidate') };
+    };
+    const on = await twoSteps({ k: 1, window: 10, draws: 3 });
+    const byName = (log: typeof on.log) => Object.fromEntries(candidateSeries(log).map((c) => [c.name, c.values]));
+    const count = (events: CandidateEvent[], it: number, keep: (o: string) => boolean) => events.filter((e) => e.iteration <= it && keep(e.outcome)).length;
+    const want = (events: CandidateEvent[]) => ({
+      tried: [1, 2].map((i) => count(events, i, (o) => o !== 'screened')),
+      'too easy': [1, 2].map((i) => count(events, i, (o) => o === 'too-easy')),
+    });
+    expect(byName(on.log)).toEqual({ ...want(on.events), screened: [1, 2].map((i) => count(on.events, i, (o) => o === 'screened')) });
+    expect(byName(on.log).screened[1]).toBeGreaterThan(0);
+    const off = await twoSteps(undefined);
+    expect(byName(off.log)).toEqual(want(off.events));
   });
 
   it('screens by the descriptor: a proposal far from every too-easy memory is evaluated', () => {

@@ -104,6 +104,17 @@ describe('the report of that run in chromium', () => {
     expect(want.crossed.findIndex((v) => v > 0)).toBeLessThanOrEqual(want.solved.findIndex((v) => v > 0));
   });
 
+  it('charts the candidates tried and those refused as too easy, counted from the event log, and no screened curve without a screen', async () => {
+    // Every candidate's outcome is an event; "tried" counts all but those screened before rollouts (README, *Run directory*).
+    const events = readFileSync(join(runDir, 'events.jsonl'), 'utf8').trim().split('\n').map((l) => JSON.parse(l) as { type: string; iteration: number; outcome?: string })
+      .filter((e) => e.type === 'candidate');
+    const upTo = (i: number, keep: (o: string) => boolean) => events.filter((e) => e.iteration <= i && keep(e.outcome!)).length;
+    const got = await series('candidates (total)');
+    expect(got).toEqual({ tried: perIteration((i) => upTo(i, (o) => o !== 'screened')), 'too easy': perIteration((i) => upTo(i, (o) => o === 'too-easy')) });
+    expect(got.tried.at(-1)).toBe(run.state.counters.candidates);
+    expect(got.tried.at(-1)).toBeGreaterThan(0);
+  });
+
   it('states the final counts at the top', async () => {
     const last = run.state.iteration;
     const facts = await page.locator('#run-facts').textContent();
