@@ -96,8 +96,8 @@ describe('the report in chromium', () => {
     expect(watch.errors).toEqual([]);
   });
 
-  it('draws eight charts with a point per logged iteration', async () => {
-    expect(await page.locator('#curves svg.chart').count()).toBe(8);
+  it('draws nine charts with a point per logged iteration', async () => {
+    expect(await page.locator('#curves svg.chart').count()).toBe(9);
     const counts = await page.locator('#curves svg.chart').evaluateAll((svgs) =>
       svgs.map((s) => Array.from(s.querySelectorAll('polyline'), (p) => p.points.numberOfItems)));
     for (const c of counts) {
