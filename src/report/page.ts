@@ -58,24 +58,19 @@ function curves(d: ReportData): string {
     lineChart({ title: 'walker progress', x, yDomain: [0, 1], series: [s('best', C.clay, (m) => m.bestProgress), s('median', C.blue, (m) => m.medianProgress)] }),
     lineChart({ title: 'takeovers by transfer (total)', x, series: [s('takeovers', C.ochre, (m) => m.takeovers)] }),
     lineChart({ title: 'hardest course (difficulty)', x, series: [s('crossed', C.ochre, (m) => m.hardestCrossed), s('solved', C.ink, (m) => m.hardestSolved)] }),
-    lineChart({ title: 'candidates (total)', x, series: candidateSeries(d.metrics).map((c) => ({ ...c, colour: CANDIDATE_COLOURS[c.name] })) }),
+    lineChart({ title: 'candidates (total)', x, series: candidateSeries(d.metrics) }),
   ].join('');
 }
-
-const CANDIDATE_COLOURS: Record<string, string> = { tried: C.blue, 'too easy': C.clay, screened: C.slate };
 
 /**
  * The candidates chart's series from the metrics log: candidates tried (given rollouts), those
  * refused as too easy, and, only when the run has an admission screen (its log lines carry
  * `screened`), proposals screened out before rollouts. Cumulative, one value per logged iteration.
  */
-export function candidateSeries(metrics: readonly IterationMetrics[]): { name: string; values: number[] }[] {
-  const out = [
-    { name: 'tried', values: metrics.map((m) => m.candidates) },
-    { name: 'too easy', values: metrics.map((m) => m.tooEasy) },
-  ];
-  if (metrics.some((m) => m.screened !== undefined)) out.push({ name: 'screened', values: metrics.map((m) => m.screened ?? 0) });
-  return out;
+export function candidateSeries(metrics: readonly IterationMetrics[]): { name: string; colour: string; values: number[] }[] {
+  const s = (name: string, colour: string, f: (m: IterationMetrics) => number) => ({ name, colour, values: metrics.map(f) });
+  const screened = metrics.some((m) => m.screened !== undefined);
+  return [s('tried', C.blue, (m) => m.candidates), s('too easy', C.clay, (m) => m.tooEasy), ...(screened ? [s('screened', C.slate, (m) => m.screened ?? 0)] : [])];
 }
 
 function coverageSection(d: ReportData): string {

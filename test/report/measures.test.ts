@@ -105,7 +105,7 @@ describe('the report of that run in chromium', () => {
   });
 
   it('charts the candidates tried and those refused as too easy, counted from the event log, and no screened curve without a screen', async () => {
-    // Every candidate's outcome is an event; "tried" counts all but those screened before rollouts (README, *Run directory*).
+    // Every candidate's outcome is an event; "tried" counts all but those screened before rollouts (README, *How a run works*).
     const events = readFileSync(join(runDir, 'events.jsonl'), 'utf8').trim().split('\n').map((l) => JSON.parse(l) as { type: string; iteration: number; outcome?: string })
       .filter((e) => e.type === 'candidate');
     const upTo = (i: number, keep: (o: string) => boolean) => events.filter((e) => e.iteration <= i && keep(e.outcome!)).length;
